@@ -1,0 +1,65 @@
+package model_test
+
+import (
+	"testing"
+
+	"pvcouple/model"
+	"pvcouple/presets"
+)
+
+func normalParams(tb testing.TB) model.Params {
+	tb.Helper()
+	sc, err := presets.Get("normal")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return sc.Params
+}
+
+// BenchmarkSteadyStateCold solves the default preset from nothing (target ≤ 2 ms).
+func BenchmarkSteadyStateCold(b *testing.B) {
+	p := normalParams(b)
+	s := model.NewSolver()
+	b.ReportAllocs()
+	beats := 0
+	for b.Loop() {
+		st, err := s.SteadyState(p, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		beats = st.Beats
+	}
+	b.ReportMetric(float64(beats), "beats")
+}
+
+// BenchmarkSteadyStateWarm re-solves after a 5 % nudge of the filling pressure,
+// starting from the previous steady state (target ≤ 0.5 ms).
+func BenchmarkSteadyStateWarm(b *testing.B) {
+	p := normalParams(b)
+	s := model.NewSolver()
+	base, err := s.SteadyState(p, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	q := p
+	q.FillingPressure *= 1.05
+	b.ReportAllocs()
+	beats := 0
+	for b.Loop() {
+		st, err := s.SteadyState(q, &base.Warm)
+		if err != nil {
+			b.Fatal(err)
+		}
+		beats = st.Beats
+	}
+	b.ReportMetric(float64(beats), "beats")
+}
+
+func preset(tb testing.TB, name string) model.Params {
+	tb.Helper()
+	sc, err := presets.Get(name)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return sc.Params
+}

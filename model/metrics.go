@@ -1,0 +1,223 @@
+package model
+
+import (
+	"errors"
+	"fmt"
+	"math"
+)
+
+// Metrics are the measurements of one beat, as a catheter laboratory takes
+// them. A value that cannot be measured from the beat at hand (say MAP from an
+// LV-only recording) is NaN. Units are those of the keys in MetricSpecs.
+type Metrics struct {
+	EDV, ESV, SV float64 // mL
+	EF           float64 // %
+	EDP, ESP     float64 // mmHg
+	Ea, Ees      float64 // mmHg/mL
+	EaEes        float64 // Ea/Ees, dimensionless
+	EaRT         float64 // Ea ≈ R_total/T (Sunagawa et al. 1983), mmHg/mL
+	EaSegers     float64 // Ea ≈ −0.13 + 1.02·R_total/T + 0.31/C (Segers et al. 2002), mmHg/mL
+	HR           float64 // bpm
+	CO           float64 // L/min
+	MAP          float64 // time-mean proximal aortic pressure, mmHg
+	SBP, DBP     float64 // mmHg
+	SW, PE, PVA  float64 // mmHg·mL
+	Efficiency   float64 // SW/PVA, fraction
+	VO2          float64 // mL O2 per beat
+	DPdtMax      float64 // mmHg/s
+	DPdtMin      float64 // mmHg/s
+	Tau          float64 // ms
+	EDStress     float64 // end-diastolic meridional wall stress, 10³ dyn/cm²
+	ESStress     float64 // end-systolic meridional wall stress, 10³ dyn/cm²
+	TED, TES     float64 // times of end-diastole and end-systole, s from the first sample
+}
+
+// BeatSamples are the samples of one cardiac cycle. The first and last
+// samples are the same phase of consecutive cycles (the last closes the loop),
+// so Period = T[n−1] − T[0].
+type BeatSamples struct {
+	T []float64 // s, increasing
+	P []float64 // LV pressure, mmHg
+	V []float64 // LV volume, mL
+	// DPdt is dP/dt of LV pressure, mmHg/s. If nil it is taken from P by central differences.
+	DPdt []float64
+	// Pao is proximal aortic pressure, mmHg. If nil, MAP, SBP and DBP are NaN.
+	Pao []float64
+}
+
+// Known is what is known of the heart and its load beyond the samples: exact
+// for the model, estimated for a recording. NaN marks an unknown value and
+// makes the metrics that need it NaN (V0 then defaults to 0 for finding end-systole).
+type Known struct {
+	V0, Ees        float64 // ESPVR intercept (mL) and slope (mmHg/mL)
+	EdpvrA, EdpvrB float64 // EDPVR P = A·(exp(B·(V−V0)) − 1), mmHg and 1/mL
+	WallVolume     float64 // LV wall volume, mL
+	Resistance     float64 // total systemic resistance Zc + R, mmHg·s/mL
+	Compliance     float64 // arterial compliance, mL/mmHg
+}
+
+// Unknown returns a Known with every value unknown.
+func Unknown() Known {
+	n := math.NaN()
+	return Known{n, n, n, n, n, n, n}
+}
+
+// Constants of the energetics (SCIENCE.md §4): VO2 per beat = vo2Slope·PVA +
+// vo2Intercept, mL O2 with PVA in mmHg·mL (Khalafbeigui, Suga & Sagawa 1979,
+// Am J Physiol 237:H566).
+const (
+	vo2Slope     = 1.53e-5
+	vo2Intercept = 0.019
+)
+
+// tauWindowAboveEDP ends the Weiss fit where pressure falls to EDP plus this
+// much, mmHg, before filling begins (common practice, no source).
+const tauWindowAboveEDP = 5
+
+// Measure takes the measurements of one beat from its samples.
+//
+// End-diastole is the sample of largest volume. End-systole is the sample of
+// maximal P/(V − V0) (SCIENCE.md §6), among samples with V − V0 above 2 % of
+// EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
+// maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
+// the loop area. PE = ½·ESP·(ESV − V0) less the area under the EDPVR from V0 to
+// ESV when the EDPVR is known; PVA = SW + PE (Suga). τ is Weiss's: the
+// least-squares slope of ln P against t from peak −dP/dt until pressure falls
+// to EDP + 5 mmHg, zero asymptote (Weiss, Frederiksen & Weisfeldt 1976). Wall
+// stress is the thick-wall meridional stress of a sphere holding the cavity
+// volume inside the wall volume (Grossman et al. 1975, SCIENCE.md §7).
+func Measure(b BeatSamples, k Known) (Metrics, error) {
+	n := len(b.T)
+	if n < 8 {
+		return Metrics{}, fmt.Errorf("a beat needs at least 8 samples, got %d", n)
+	}
+	if len(b.P) != n || len(b.V) != n || (b.DPdt != nil && len(b.DPdt) != n) || (b.Pao != nil && len(b.Pao) != n) {
+		return Metrics{}, errors.New("beat samples have columns of different lengths")
+	}
+	period := b.T[n-1] - b.T[0]
+	if !(period > 0) {
+		return Metrics{}, fmt.Errorf("beat has no duration (%g s)", period)
+	}
+	v0 := k.V0
+	if math.IsNaN(v0) {
+		v0 = 0
+	}
+	var m Metrics
+	nan := math.NaN()
+
+	// End-diastole: largest volume.
+	ied := 0
+	for i := range b.V {
+		if b.V[i] > b.V[ied] {
+			ied = i
+		}
+	}
+	m.EDV, m.EDP, m.TED = b.V[ied], b.P[ied], b.T[ied]-b.T[0]
+
+	// End-systole: maximal P/(V − V0).
+	floor := math.Max(1, 0.02*(m.EDV-v0))
+	ies, best := -1, math.Inf(-1)
+	for i := range b.V {
+		x := b.V[i] - v0
+		if x > floor {
+			if r := b.P[i] / x; r > best {
+				ies, best = i, r
+			}
+		}
+	}
+	if ies < 0 {
+		return Metrics{}, fmt.Errorf("no sample has a volume above V0 = %g mL: cannot find end-systole", v0)
+	}
+	m.ESV, m.ESP, m.TES = b.V[ies], b.P[ies], b.T[ies]-b.T[0]
+
+	m.SV = m.EDV - m.ESV
+	m.EF = 100 * m.SV / m.EDV
+	m.Ea = m.ESP / m.SV
+	m.Ees = k.Ees
+	m.EaEes = m.Ea / k.Ees
+	m.HR = 60 / period
+	m.CO = m.SV * m.HR / 1000
+	m.EaRT = k.Resistance / period
+	m.EaSegers = -0.13 + 1.02*k.Resistance/period + 0.31/k.Compliance
+
+	if b.Pao != nil {
+		m.MAP = timeMean(b.T, b.Pao)
+		m.SBP, m.DBP = extremes(b.Pao)
+	} else {
+		m.MAP, m.SBP, m.DBP = nan, nan, nan
+	}
+
+	m.SW = loopArea(b.V, b.P)
+	m.PE = 0.5 * m.ESP * (m.ESV - v0)
+	if x := m.ESV - v0; !math.IsNaN(k.EdpvrA) && !math.IsNaN(k.EdpvrB) && x > 0 {
+		m.PE -= k.EdpvrA*math.Expm1(k.EdpvrB*x)/k.EdpvrB - k.EdpvrA*x
+	}
+	if math.IsNaN(k.V0) {
+		m.PE = nan
+	}
+	m.PVA = m.SW + m.PE
+	m.Efficiency = m.SW / m.PVA
+	m.VO2 = vo2Slope*m.PVA + vo2Intercept
+
+	dpdt := b.DPdt
+	if dpdt == nil {
+		dpdt = centralDiff(b.T, b.P)
+	}
+	imax, imin := 0, 0
+	for i, d := range dpdt {
+		if d > dpdt[imax] {
+			imax = i
+		}
+		if d < dpdt[imin] {
+			imin = i
+		}
+	}
+	m.DPdtMax, m.DPdtMin = dpdt[imax], dpdt[imin]
+	m.Tau = weissTau(b.T, b.P, imin, m.EDP+tauWindowAboveEDP)
+
+	m.EDStress = wallStress(m.EDP, m.EDV, k.WallVolume)
+	m.ESStress = wallStress(m.ESP, m.ESV, k.WallVolume)
+	return m, nil
+}
+
+// timeMean is the trapezoidal time average of y over the span of t.
+func timeMean(t, y []float64) float64 {
+	var s float64
+	for i := 1; i < len(t); i++ {
+		s += 0.5 * (y[i] + y[i-1]) * (t[i] - t[i-1])
+	}
+	return s / (t[len(t)-1] - t[0])
+}
+
+func extremes(y []float64) (hi, lo float64) {
+	hi, lo = y[0], y[0]
+	for _, v := range y {
+		hi, lo = math.Max(hi, v), math.Min(lo, v)
+	}
+	return hi, lo
+}
+
+// loopArea is the area enclosed by the closed polygon (V, P), positive when
+// the loop runs counter-clockwise in the PV plane (filling along the bottom,
+// ejection along the top): the external work −∮P dV.
+func loopArea(v, p []float64) float64 {
+	n := len(v)
+	var s float64
+	for i := 0; i < n; i++ {
+		j := (i + 1) % n
+		s += v[i]*p[j] - v[j]*p[i]
+	}
+	return 0.5 * s
+}
+
+// centralDiff differentiates y(t) by central differences (one-sided at the ends).
+func centralDiff(t, y []float64) []float64 {
+	n := len(t)
+	d := make([]float64, n)
+	for i := 1; i < n-1; i++ {
+		d[i] = (y[i+1] - y[i-1]) / (t[i+1] - t[i-1])
+	}
+	d[0] = (y[1] - y[0]) / (t[1] - t[0])
+	d[n-1] = (y[n-1] - y[n-2]) / (t[n-1] - t[n-2])
+	return d
+}

@@ -1,0 +1,52 @@
+package model
+
+// MetricSpec describes one measurement: its key (unit in the name), unit,
+// short label and meaning.
+type MetricSpec struct {
+	Key     string
+	Unit    string
+	Label   string
+	Meaning string
+	Get     func(*Metrics) float64
+}
+
+// MetricSpecs lists every measurement in output order. The keys are the
+// column names of CSV output and the names in JSON output.
+var MetricSpecs = []MetricSpec{
+	{"edv_ml", "mL", "EDV", "end-diastolic volume (largest volume of the beat)", func(m *Metrics) float64 { return m.EDV }},
+	{"esv_ml", "mL", "ESV", "end-systolic volume (at maximal P/(V−V0))", func(m *Metrics) float64 { return m.ESV }},
+	{"sv_ml", "mL", "SV", "stroke volume EDV − ESV", func(m *Metrics) float64 { return m.SV }},
+	{"ef_pct", "%", "EF", "ejection fraction SV/EDV", func(m *Metrics) float64 { return m.EF }},
+	{"edp_mmhg", "mmHg", "EDP", "end-diastolic pressure", func(m *Metrics) float64 { return m.EDP }},
+	{"esp_mmhg", "mmHg", "ESP", "end-systolic pressure", func(m *Metrics) float64 { return m.ESP }},
+	{"ea_mmhg_per_ml", "mmHg/mL", "Ea", "effective arterial elastance ESP/SV", func(m *Metrics) float64 { return m.Ea }},
+	{"ees_mmhg_per_ml", "mmHg/mL", "Ees", "end-systolic elastance (slope of the ESPVR)", func(m *Metrics) float64 { return m.Ees }},
+	{"ea_ees_ratio", "", "Ea/Ees", "ventricular–arterial coupling ratio", func(m *Metrics) float64 { return m.EaEes }},
+	{"ea_hr_r_mmhg_per_ml", "mmHg/mL", "Ea≈HR·R", "Ea estimated as total resistance × heart rate (Sunagawa 1983)", func(m *Metrics) float64 { return m.EaRT }},
+	{"ea_segers_mmhg_per_ml", "mmHg/mL", "Ea(Segers)", "Ea estimated as −0.13 + 1.02·R/T + 0.31/C (Segers 2002)", func(m *Metrics) float64 { return m.EaSegers }},
+	{"hr_bpm", "bpm", "HR", "heart rate", func(m *Metrics) float64 { return m.HR }},
+	{"co_l_per_min", "L/min", "CO", "cardiac output SV·HR", func(m *Metrics) float64 { return m.CO }},
+	{"map_mmhg", "mmHg", "MAP", "mean proximal aortic pressure over the beat", func(m *Metrics) float64 { return m.MAP }},
+	{"sbp_mmhg", "mmHg", "SBP", "systolic (peak) aortic pressure", func(m *Metrics) float64 { return m.SBP }},
+	{"dbp_mmhg", "mmHg", "DBP", "diastolic (lowest) aortic pressure", func(m *Metrics) float64 { return m.DBP }},
+	{"sw_mmhg_ml", "mmHg·mL", "SW", "stroke work, the loop area", func(m *Metrics) float64 { return m.SW }},
+	{"pe_mmhg_ml", "mmHg·mL", "PE", "potential energy, between ESPVR and EDPVR left of the loop", func(m *Metrics) float64 { return m.PE }},
+	{"pva_mmhg_ml", "mmHg·mL", "PVA", "pressure–volume area SW + PE", func(m *Metrics) float64 { return m.PVA }},
+	{"efficiency", "", "SW/PVA", "mechanical efficiency SW/PVA (fraction)", func(m *Metrics) float64 { return m.Efficiency }},
+	{"vo2_ml_per_beat", "mL O2", "VO2", "myocardial O2 use per beat from PVA (Suga)", func(m *Metrics) float64 { return m.VO2 }},
+	{"dpdt_max_mmhg_per_s", "mmHg/s", "dP/dt max", "peak rate of LV pressure rise", func(m *Metrics) float64 { return m.DPdtMax }},
+	{"dpdt_min_mmhg_per_s", "mmHg/s", "dP/dt min", "peak rate of LV pressure fall", func(m *Metrics) float64 { return m.DPdtMin }},
+	{"tau_ms", "ms", "τ", "isovolumic relaxation time constant (Weiss)", func(m *Metrics) float64 { return m.Tau }},
+	{"ed_wall_stress_kdyn_cm2", "10³ dyn/cm²", "σ ED", "end-diastolic meridional wall stress", func(m *Metrics) float64 { return m.EDStress }},
+	{"es_wall_stress_kdyn_cm2", "10³ dyn/cm²", "σ ES", "end-systolic meridional wall stress", func(m *Metrics) float64 { return m.ESStress }},
+}
+
+// MetricByKey returns the spec of a metric key.
+func MetricByKey(key string) (MetricSpec, bool) {
+	for _, s := range MetricSpecs {
+		if s.Key == key {
+			return s, true
+		}
+	}
+	return MetricSpec{}, false
+}

@@ -1,0 +1,234 @@
+package presets
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"go.yaml.in/yaml/v3"
+
+	"pvcouple/model"
+)
+
+// SchemaVersion is the version of the scenario schema this package reads and writes.
+const SchemaVersion = 1
+
+// Scenario is a named parameter set with an optional baseline.
+type Scenario struct {
+	Version     int
+	Name        string
+	Description string
+	Notes       string
+	Base        string // built-in preset the parameters were filled from, if any
+	Params      model.Params
+	Baseline    *model.Params // nil when the scenario names no baseline
+}
+
+// BaselineOrParams returns the baseline, or the parameters when there is none.
+func (s *Scenario) BaselineOrParams() model.Params {
+	if s.Baseline != nil {
+		return *s.Baseline
+	}
+	return s.Params
+}
+
+// FileError is an error at a place in a scenario or protocol file.
+type FileError struct {
+	File string // file name, or "preset NAME" for built-ins
+	Line int    // 1-based; 0 if unknown
+	Key  string // dotted key path, if any
+	Msg  string
+}
+
+func (e *FileError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Line > 0 {
+		fmt.Fprintf(&b, ":%d", e.Line)
+	}
+	b.WriteString(": ")
+	if e.Key != "" {
+		b.WriteString(e.Key)
+		b.WriteString(": ")
+	}
+	b.WriteString(e.Msg)
+	return b.String()
+}
+
+// LoadScenario reads and strictly checks a scenario file.
+func LoadScenario(path string) (*Scenario, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("cannot read scenario: %w", err)
+	}
+	return ParseScenario(data, path)
+}
+
+// ParseScenario strictly decodes a scenario; name labels errors (a file name).
+func ParseScenario(data []byte, name string) (*Scenario, error) {
+	root, err := decodeSingle(data, name)
+	if err != nil {
+		return nil, err
+	}
+	fe := func(n *yaml.Node, key, format string, a ...any) error {
+		return &FileError{File: name, Line: n.Line, Key: key, Msg: fmt.Sprintf(format, a...)}
+	}
+	if root.Kind != yaml.MappingNode {
+		return nil, fe(root, "", "a scenario must be a mapping with version, name and params")
+	}
+	sc := &Scenario{}
+	var paramsNode, baselineNode *yaml.Node
+	seen := map[string]bool{}
+	for i := 0; i+1 < len(root.Content); i += 2 {
+		k, v := root.Content[i], root.Content[i+1]
+		if seen[k.Value] {
+			return nil, fe(k, k.Value, "duplicate key")
+		}
+		seen[k.Value] = true
+		switch k.Value {
+		case "version":
+			n, err := strconv.Atoi(v.Value)
+			if v.Kind != yaml.ScalarNode || err != nil {
+				return nil, fe(v, "version", "%q is not a whole number; this program reads version %d", v.Value, SchemaVersion)
+			}
+			if n != SchemaVersion {
+				return nil, fe(v, "version", "version %d is not supported; this program reads version %d", n, SchemaVersion)
+			}
+			sc.Version = n
+		case "name", "description", "notes", "base":
+			if v.Kind != yaml.ScalarNode || v.Tag != "!!str" && v.Tag != "!!null" {
+				return nil, fe(v, k.Value, "must be text")
+			}
+			switch k.Value {
+			case "name":
+				sc.Name = v.Value
+			case "description":
+				sc.Description = v.Value
+			case "notes":
+				sc.Notes = v.Value
+			case "base":
+				sc.Base = v.Value
+			}
+		case "params":
+			paramsNode = v
+		case "baseline":
+			baselineNode = v
+		default:
+			return nil, fe(k, k.Value, "unknown key; allowed: version, name, description, notes, base, params, baseline")
+		}
+	}
+	if sc.Version == 0 {
+		return nil, fe(root, "version", "missing; add `version: %d`", SchemaVersion)
+	}
+	if paramsNode == nil {
+		return nil, fe(root, "params", "missing; list the parameters (see `pvcouple params`)")
+	}
+	var base *model.Params
+	if sc.Base != "" {
+		b, err := builtinScenario(sc.Base)
+		if err != nil {
+			return nil, fe(root, "base", "%v", err)
+		}
+		base = &b.Params
+	}
+	p, err := decodeParams(paramsNode, "params", base, name)
+	if err != nil {
+		return nil, err
+	}
+	sc.Params = p
+	if baselineNode != nil && baselineNode.Tag != "!!null" {
+		bp, err := decodeParams(baselineNode, "baseline", base, name)
+		if err != nil {
+			return nil, err
+		}
+		sc.Baseline = &bp
+	}
+	return sc, nil
+}
+
+// decodeSingle parses data as exactly one YAML document.
+func decodeSingle(data []byte, name string) (*yaml.Node, error) {
+	dec := yaml.NewDecoder(bytes.NewReader(data))
+	var doc yaml.Node
+	if err := dec.Decode(&doc); err != nil {
+		if errors.Is(err, io.EOF) {
+			return nil, &FileError{File: name, Msg: "file is empty"}
+		}
+		return nil, &FileError{File: name, Msg: "not valid YAML: " + strings.TrimPrefix(err.Error(), "yaml: ")}
+	}
+	var extra yaml.Node
+	if err := dec.Decode(&extra); !errors.Is(err, io.EOF) {
+		line := extra.Line
+		return nil, &FileError{File: name, Line: line, Msg: "a second YAML document follows the first; a file holds one"}
+	}
+	if doc.Kind != yaml.DocumentNode || len(doc.Content) != 1 {
+		return nil, &FileError{File: name, Msg: "file holds no YAML document"}
+	}
+	return doc.Content[0], nil
+}
+
+// decodeParams reads a mapping of parameter keys to numbers. Keys missing from
+// the mapping come from base; without base every key is required.
+func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (model.Params, error) {
+	var p model.Params
+	if base != nil {
+		p = *base
+	}
+	if n.Kind != yaml.MappingNode {
+		return p, &FileError{File: file, Line: n.Line, Key: path, Msg: "must be a mapping of parameter keys to numbers"}
+	}
+	seen := map[string]bool{}
+	for i := 0; i+1 < len(n.Content); i += 2 {
+		k, v := n.Content[i], n.Content[i+1]
+		key := path + "." + k.Value
+		spec, ok := model.SpecByKey(k.Value)
+		if !ok {
+			return p, &FileError{File: file, Line: k.Line, Key: key, Msg: "unknown parameter (see `pvcouple params`)"}
+		}
+		if seen[k.Value] {
+			return p, &FileError{File: file, Line: k.Line, Key: key, Msg: "duplicate key"}
+		}
+		seen[k.Value] = true
+		x, err := scalarNumber(v)
+		if err != nil {
+			return p, &FileError{File: file, Line: v.Line, Key: key, Msg: fmt.Sprintf("%v; %s", err, spec.RangeText())}
+		}
+		if err := spec.Check(x); err != nil {
+			return p, &FileError{File: file, Line: v.Line, Key: path, Msg: err.Error()}
+		}
+		spec.Set(&p, x)
+	}
+	if base == nil {
+		var missing []string
+		for _, s := range model.Specs {
+			if !seen[s.Key] {
+				missing = append(missing, s.Key)
+			}
+		}
+		if len(missing) > 0 {
+			return p, &FileError{File: file, Line: n.Line, Key: path, Msg: "missing " + strings.Join(missing, ", ") +
+				" (give every parameter, or name a built-in preset with `base:`)"}
+		}
+	}
+	if err := p.Validate(); err != nil {
+		return p, &FileError{File: file, Line: n.Line, Key: path, Msg: err.Error()}
+	}
+	return p, nil
+}
+
+// scalarNumber reads a finite number from a YAML scalar.
+func scalarNumber(v *yaml.Node) (float64, error) {
+	if v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float") {
+		return 0, fmt.Errorf("%q is not a number", v.Value)
+	}
+	x, err := strconv.ParseFloat(strings.ReplaceAll(v.Value, "_", ""), 64)
+	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0, fmt.Errorf("%q is not a finite number", v.Value)
+	}
+	return x, nil
+}
