@@ -8,4 +8,7 @@ require (
 	gonum.org/v1/gonum v0.17.0
 )
 
-require golang.org/x/sys v0.50.0 // indirect
+require (
+	github.com/google/renameio/v2 v2.0.2 // indirect
+	golang.org/x/sys v0.50.0 // indirect
+)

@@ -1,0 +1,90 @@
+package analysis
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/stat"
+
+	"pvcouple/model"
+)
+
+// Point is a pressure–volume point.
+type Point struct {
+	V float64 // mL
+	P float64 // mmHg
+}
+
+// ESPVRFit is an end-systolic pressure–volume relation fitted to a family of
+// loops recorded while preload changes.
+type ESPVRFit struct {
+	Ees        float64 // slope, mmHg/mL
+	V0         float64 // volume intercept, mL
+	R2         float64 // coefficient of determination of the last fit
+	Beats      int     // loops used
+	Method     string  // "iterated-max-elastance-linear"
+	Iterations int     // V0 iterations until the end-systolic points stopped changing
+	Points     []Point // end-systolic points of the last iteration
+}
+
+// MinESPVRBeats is the fewest loops an ESPVR is fitted to.
+const MinESPVRBeats = 5
+
+// FitESPVR fits P = Ees·(V − V0) to the end-systolic points of the loops by the
+// iterated maximal-elastance method (SCIENCE.md §6): guess V0, take each loop's
+// point of maximal P/(V − V0), fit a line by least squares, take its volume
+// intercept as the new V0, and repeat until V0 moves less than 1e-6 mL. In a
+// pure elastance model this recovers Ees and V0. v0Guess starts the iteration
+// (0 when unknown).
+func FitESPVR(beats []model.BeatSamples, v0Guess float64) (ESPVRFit, error) {
+	if len(beats) < MinESPVRBeats {
+		return ESPVRFit{}, fmt.Errorf("an ESPVR needs at least %d loops with changing preload, got %d", MinESPVRBeats, len(beats))
+	}
+	v0 := v0Guess
+	vs := make([]float64, len(beats))
+	ps := make([]float64, len(beats))
+	fit := ESPVRFit{Beats: len(beats), Method: "iterated-max-elastance-linear"}
+	for it := 1; it <= 100; it++ {
+		for i, b := range beats {
+			p, err := maxElastancePoint(b, v0)
+			if err != nil {
+				return ESPVRFit{}, fmt.Errorf("loop %d: %w", i+1, err)
+			}
+			vs[i], ps[i] = p.V, p.P
+		}
+		alpha, beta := stat.LinearRegression(vs, ps, nil, false)
+		if !(beta > 0) {
+			return ESPVRFit{}, fmt.Errorf("end-systolic points do not rise with volume (slope %.3g mmHg/mL): preload did not change enough", beta)
+		}
+		next := -alpha / beta
+		fit.Ees, fit.V0, fit.Iterations = beta, next, it
+		fit.R2 = stat.RSquared(vs, ps, nil, alpha, beta)
+		if math.Abs(next-v0) < 1e-6 {
+			break
+		}
+		v0 = next
+	}
+	fit.Points = make([]Point, len(beats))
+	for i := range vs {
+		fit.Points[i] = Point{vs[i], ps[i]}
+	}
+	return fit, nil
+}
+
+// maxElastancePoint is the sample of a loop with maximal P/(V − v0), among
+// samples more than 1 mL above v0.
+func maxElastancePoint(b model.BeatSamples, v0 float64) (Point, error) {
+	best, idx := math.Inf(-1), -1
+	for i := range b.V {
+		if x := b.V[i] - v0; x > 1 {
+			if r := b.P[i] / x; r > best {
+				best, idx = r, i
+			}
+		}
+	}
+	if idx < 0 {
+		return Point{}, errors.New("no sample lies above the volume intercept")
+	}
+	return Point{b.V[idx], b.P[idx]}, nil
+}

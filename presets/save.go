@@ -1,0 +1,79 @@
+package presets
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"strconv"
+
+	"github.com/google/renameio/v2"
+	"go.yaml.in/yaml/v3"
+
+	"pvcouple/model"
+)
+
+// ErrExists is returned by SaveScenario when the file exists and force is false.
+var ErrExists = errors.New("file exists")
+
+// Marshal returns the scenario as YAML in schema version 1, every parameter
+// written with the shortest decimal that reads back exactly, in the order of
+// model.Specs. A scenario saved and loaded again solves to the same numbers.
+func (s *Scenario) Marshal() ([]byte, error) {
+	root := &yaml.Node{Kind: yaml.MappingNode}
+	add := func(key string, v *yaml.Node) {
+		root.Content = append(root.Content, &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: key}, v)
+	}
+	str := func(v string) *yaml.Node {
+		n := &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: v}
+		if len(v) > 0 && v[len(v)-1] == '\n' {
+			n.Style = yaml.LiteralStyle
+		}
+		return n
+	}
+	add("version", &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!int", Value: strconv.Itoa(SchemaVersion)})
+	add("name", str(s.Name))
+	if s.Description != "" {
+		add("description", str(s.Description))
+	}
+	if s.Notes != "" {
+		add("notes", str(s.Notes))
+	}
+	add("params", paramsNode(s.Params))
+	if s.Baseline != nil {
+		add("baseline", paramsNode(*s.Baseline))
+	}
+	doc := &yaml.Node{Kind: yaml.DocumentNode, Content: []*yaml.Node{root}}
+	return yaml.Marshal(doc)
+}
+
+func paramsNode(p model.Params) *yaml.Node {
+	n := &yaml.Node{Kind: yaml.MappingNode}
+	for _, s := range model.Specs {
+		n.Content = append(n.Content,
+			&yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: s.Key},
+			&yaml.Node{Kind: yaml.ScalarNode, Tag: "!!float", Value: strconv.FormatFloat(s.Get(p), 'g', -1, 64)})
+	}
+	return n
+}
+
+// SaveScenario writes s to path atomically (a temporary file renamed into
+// place, so a failure leaves any old file intact). It refuses to replace an
+// existing file unless force is set, returning an error wrapping ErrExists.
+func SaveScenario(path string, s *Scenario, force bool) error {
+	data, err := s.Marshal()
+	if err != nil {
+		return fmt.Errorf("cannot encode scenario: %w", err)
+	}
+	if !force {
+		if _, err := os.Lstat(path); err == nil {
+			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", path, ErrExists)
+		} else if !errors.Is(err, fs.ErrNotExist) {
+			return fmt.Errorf("cannot save scenario: %w", err)
+		}
+	}
+	if err := renameio.WriteFile(path, data, 0o644); err != nil {
+		return fmt.Errorf("cannot save scenario: %w", err)
+	}
+	return nil
+}
