@@ -63,4 +63,3 @@ func TestSaveRefusesToOverwrite(t *testing.T) {
 		t.Errorf("forced save unreadable: %v", err)
 	}
 }
-
