@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
@@ -62,9 +61,9 @@ func (e *FileError) Error() string {
 
 // LoadScenario reads and strictly checks a scenario file.
 func LoadScenario(path string) (*Scenario, error) {
-	data, err := os.ReadFile(path)
+	data, err := readCapped(path, "scenario")
 	if err != nil {
-		return nil, fmt.Errorf("cannot read scenario: %w", err)
+		return nil, err
 	}
 	return ParseScenario(data, path)
 }
@@ -153,6 +152,9 @@ func ParseScenario(data []byte, name string) (*Scenario, error) {
 
 // decodeSingle parses data as exactly one YAML document.
 func decodeSingle(data []byte, name string) (*yaml.Node, error) {
+	if len(data) > MaxFileSize {
+		return nil, &FileError{File: name, Msg: fmt.Sprintf("larger than %d KiB: not a scenario or protocol file", MaxFileSize>>10)}
+	}
 	dec := yaml.NewDecoder(bytes.NewReader(data))
 	var doc yaml.Node
 	if err := dec.Decode(&doc); err != nil {
@@ -168,6 +170,9 @@ func decodeSingle(data []byte, name string) (*yaml.Node, error) {
 	}
 	if doc.Kind != yaml.DocumentNode || len(doc.Content) != 1 {
 		return nil, &FileError{File: name, Msg: "file holds no YAML document"}
+	}
+	if err := rejectAliases(doc.Content[0], name); err != nil {
+		return nil, err
 	}
 	return doc.Content[0], nil
 }
