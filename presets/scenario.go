@@ -191,6 +191,9 @@ func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (m
 	for i := 0; i+1 < len(n.Content); i += 2 {
 		k, v := n.Content[i], n.Content[i+1]
 		key := path + "." + k.Value
+		if k.Kind != yaml.ScalarNode {
+			return p, &FileError{File: file, Line: k.Line, Key: path, Msg: "a key must be plain text"}
+		}
 		spec, ok := model.SpecByKey(k.Value)
 		if !ok {
 			return p, &FileError{File: file, Line: k.Line, Key: key, Msg: "unknown parameter (see `pvcouple params`)"}
@@ -228,7 +231,12 @@ func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (m
 
 // scalarNumber reads a finite number from a YAML scalar.
 func scalarNumber(v *yaml.Node) (float64, error) {
-	if v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float") {
+	switch {
+	case v.Kind == yaml.MappingNode:
+		return 0, errors.New("a mapping is not a number")
+	case v.Kind == yaml.SequenceNode:
+		return 0, errors.New("a list is not a number")
+	case v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float"):
 		return 0, fmt.Errorf("%q is not a number", v.Value)
 	}
 	x, err := strconv.ParseFloat(strings.ReplaceAll(v.Value, "_", ""), 64)
