@@ -14,10 +14,12 @@ func init() {
 }
 
 func runSolve(env *Env, args []string) error {
-	fs := newFlags(env, "solve", "solve [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format table|json]",
-		"Solves the model to its periodic steady state and prints the parameters, the beat's\nmeasurements and the work it took.")
+	fs := newFlags(env, "solve", "solve [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format table|json] [--save FILE.yaml [--force]]",
+		"Solves the model to its periodic steady state and prints the parameters, the beat's\nmeasurements and the work it took. --save writes the scenario as solved (after --set)\nto a scenario file that --scenario loads and that solves to the same numbers.")
 	var sel selection
 	sel.addFlags(fs)
+	var save saveFlags
+	save.addFlags(fs)
 	format := fs.String("format", "table", "output `FORMAT`: table or json")
 	pos, err := parse(fs, args)
 	if err != nil {
@@ -29,12 +31,18 @@ func runSolve(env *Env, args []string) error {
 	if err := choice("format", *format, "table", "json"); err != nil {
 		return err
 	}
+	if err := save.check(); err != nil {
+		return err
+	}
 	sc, err := sel.resolve()
 	if err != nil {
 		return err
 	}
 	st, elapsed, err := solveTimed(sc.Params)
 	if err != nil {
+		return err
+	}
+	if err := save.save(env, &sel, sc); err != nil {
 		return err
 	}
 	if *format == "json" {

@@ -76,7 +76,8 @@ const tauWindowAboveEDP = 5
 
 // Measure takes the measurements of one beat from its samples.
 //
-// End-diastole is the sample of largest volume. End-systole is the sample of
+// End-diastole is the sample of largest volume before the peak of dP/dt
+// (the largest of the beat when it is periodic). End-systole is the sample of
 // maximal P/(V − V0) (SCIENCE.md §6), among samples with V − V0 above 2 % of
 // EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
 // maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
@@ -105,9 +106,30 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	var m Metrics
 	nan := math.NaN()
 
-	// End-diastole: largest volume.
+	dpdt := b.DPdt
+	if dpdt == nil {
+		dpdt = centralDiff(b.T, b.P)
+	}
+	imax, imin := 0, 0
+	for i, d := range dpdt {
+		if d > dpdt[imax] {
+			imax = i
+		}
+		if d < dpdt[imin] {
+			imin = i
+		}
+	}
+
+	// End-diastole: largest volume before the peak rate of pressure rise, so
+	// that in a beat whose filling changes (a transient) the filling at its
+	// end, which feeds the next beat, is not taken for this beat's preload.
+	// In a periodic beat this is the largest volume of the beat.
+	last := imax
+	if last == 0 {
+		last = n - 1
+	}
 	ied := 0
-	for i := range b.V {
+	for i := 1; i <= last; i++ {
 		if b.V[i] > b.V[ied] {
 			ied = i
 		}
@@ -159,19 +181,6 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	m.Efficiency = m.SW / m.PVA
 	m.VO2 = vo2Slope*m.PVA + vo2Intercept
 
-	dpdt := b.DPdt
-	if dpdt == nil {
-		dpdt = centralDiff(b.T, b.P)
-	}
-	imax, imin := 0, 0
-	for i, d := range dpdt {
-		if d > dpdt[imax] {
-			imax = i
-		}
-		if d < dpdt[imin] {
-			imin = i
-		}
-	}
 	m.DPdtMax, m.DPdtMin = dpdt[imax], dpdt[imin]
 	m.Tau = weissTau(b.T, b.P, imin, m.EDP+tauWindowAboveEDP)
 

@@ -11,7 +11,7 @@ import (
 // of every beat, ready for model.NewTransient.
 type Plan struct {
 	Protocol *Protocol
-	Initial  model.Params  // the parameters before the first step (the run's steady state)
+	Initial  model.Params   // the parameters before the first step (the run's steady state)
 	Params   []model.Params // parameters of beat i (from 0)
 	Steps    []int          // Steps[i] is the index in Protocol.Steps of beat i's step
 	First    []int          // First[j] is the beat index where step j begins

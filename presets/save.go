@@ -1,11 +1,13 @@
 package presets
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
 	"strconv"
+	"strings"
 
 	"github.com/google/renameio/v2"
 	"go.yaml.in/yaml/v3"
@@ -43,8 +45,18 @@ func (s *Scenario) Marshal() ([]byte, error) {
 	if s.Baseline != nil {
 		add("baseline", paramsNode(*s.Baseline))
 	}
-	doc := &yaml.Node{Kind: yaml.DocumentNode, Content: []*yaml.Node{root}}
-	return yaml.Marshal(doc)
+	doc := &yaml.Node{Kind: yaml.DocumentNode, Content: []*yaml.Node{root},
+		HeadComment: "pvcouple scenario file. Keys and units: `pvcouple params`; load with --scenario."}
+	var b bytes.Buffer
+	enc := yaml.NewEncoder(&b)
+	enc.SetIndent(2)
+	if err := enc.Encode(doc); err != nil {
+		return nil, err
+	}
+	if err := enc.Close(); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
 }
 
 func paramsNode(p model.Params) *yaml.Node {
@@ -52,9 +64,20 @@ func paramsNode(p model.Params) *yaml.Node {
 	for _, s := range model.Specs {
 		n.Content = append(n.Content,
 			&yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: s.Key},
-			&yaml.Node{Kind: yaml.ScalarNode, Tag: "!!float", Value: strconv.FormatFloat(s.Get(p), 'g', -1, 64)})
+			numberNode(s.Get(p)))
 	}
 	return n
+}
+
+// numberNode is a YAML scalar holding the shortest decimal that reads back
+// as x, tagged as YAML resolves it so that no explicit tag is written.
+func numberNode(x float64) *yaml.Node {
+	v := strconv.FormatFloat(x, 'g', -1, 64)
+	tag := "!!int"
+	if strings.ContainsAny(v, ".eE") {
+		tag = "!!float"
+	}
+	return &yaml.Node{Kind: yaml.ScalarNode, Tag: tag, Value: v}
 }
 
 // SaveScenario writes s to path atomically (a temporary file renamed into
