@@ -53,5 +53,15 @@ func (f *outputFile) commit() error {
 	return f.pending.CloseAtomicallyReplace()
 }
 
+// outputError reports a failure to write the output file named by flag,
+// without the name of the temporary file it was written to.
+func outputError(flag, path string, err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		err = pe.Err
+	}
+	return fmt.Errorf("--%s %s: cannot write: %w", flag, path, err)
+}
+
 // discard removes the temporary file unless it was committed.
 func (f *outputFile) discard() { _ = f.pending.Cleanup() }

@@ -15,12 +15,25 @@ func init() {
 	register(command{"protocol", "run a study protocol beat by beat; list and show the built-in protocols", runProtocol})
 }
 
-const protocolAbout = `A protocol is a YAML file of labelled steps that change the levers between beats:
-  set    put levers at values:           set: {heart_rate_bpm: 90}        (beats: N, default 1)
-  scale  multiply levers by factors:     scale: {resistance_mmhg_s_per_ml: 1.5}
-  ramp   move levers in N equal parts:   ramp: {filling_pressure_mmhg: {factor: 0.4}}   beats: 12
-  hold   leave the levers for N beats:   hold: 5
-A target may be a value, ` + "`initial`" + ` (the value before the protocol) or, in a ramp, {factor: F}.
+const protocolAbout = `A protocol is a YAML file of labelled steps; the levers change between beats:
+
+  version: 1
+  name: my-occlusion
+  steps:
+    - label: baseline
+      hold: 5                                # leave the levers alone for 5 beats
+    - label: occlusion
+      ramp:
+        filling_pressure_mmhg: {factor: 0.4} # in equal parts to 40 % of the value at the
+      beats: 12                              # step's start, reached on the 12th beat
+    - label: pressor
+      scale: {resistance_mmhg_s_per_ml: 1.5} # multiply at once; keep for 'beats' (default 1)
+    - label: release
+      set: {filling_pressure_mmhg: initial}  # jump at once; keep for 'beats' (default 1)
+      beats: 5
+
+A set or ramp target is a value in the key's unit or ` + "`initial`" + ` (its value before the
+protocol); a ramp also takes {factor: F}. At most 500 beats in all.
 Start from a built-in: pvcouple protocol show preload-reduction > my-protocol.yaml`
 
 func runProtocol(env *Env, args []string) error {

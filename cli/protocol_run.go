@@ -117,7 +117,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 		}
 		defer out.discard()
 		if _, err := out.WriteString(strings.Join(samplesColumns, ",") + "\n"); err != nil {
-			return nil, fmt.Errorf("--samples %s: %w", samplesPath, err)
+			return nil, outputError("samples", samplesPath, err)
 		}
 	}
 	tr, err := model.NewTransient(plan.Initial, plan.Params, opts)
@@ -145,7 +145,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 				line = strconv.AppendFloat(line, rec.V[i], 'g', -1, 64)
 				line = append(line, '\n')
 				if _, err := out.Write(line); err != nil {
-					return nil, fmt.Errorf("--samples %s: %w", samplesPath, err)
+					return nil, outputError("samples", samplesPath, err)
 				}
 			}
 			run.samples += len(rec.T)
@@ -153,7 +153,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 	}
 	if out != nil {
 		if err := out.commit(); err != nil {
-			return nil, fmt.Errorf("--samples %s: %w", samplesPath, err)
+			return nil, outputError("samples", samplesPath, err)
 		}
 	}
 	return run, nil
@@ -232,10 +232,8 @@ func (r *protocolRun) object() object {
 // recording. It returns nil and the reason when the loops cannot share one
 // ESPVR (the protocol changes Ees or V0) or the fit fails.
 func (r *protocolRun) espvrFit() (any, string) {
-	for _, k := range r.levers() {
-		if k == "ees_mmhg_per_ml" || k == "v0_ml" {
-			return nil, "not fitted: the protocol changes " + k + ", so its loops do not share one ESPVR"
-		}
+	if ok, why := r.protocol.ESPVRFixed(); !ok {
+		return nil, "not fitted: " + why
 	}
 	fit, err := analysis.FitESPVR(r.loops, 0)
 	if err != nil {

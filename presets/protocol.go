@@ -108,6 +108,19 @@ func (pr *Protocol) Levers() []string {
 	return keys
 }
 
+// ESPVRFixed reports whether the protocol leaves the ESPVR alone (it changes
+// neither ees_mmhg_per_ml nor v0_ml), so that the end-systolic points of all
+// its loops lie on one line and fitting one ESPVR to the run makes sense; if
+// not, why names the lever that moves it.
+func (pr *Protocol) ESPVRFixed() (ok bool, why string) {
+	for _, k := range pr.Levers() {
+		if k == "ees_mmhg_per_ml" || k == "v0_ml" {
+			return false, "the protocol changes " + k + ", so its loops do not share one ESPVR"
+		}
+	}
+	return true, ""
+}
+
 // LoadProtocol reads and strictly checks a protocol file.
 func LoadProtocol(path string) (*Protocol, error) {
 	data, err := readCapped(path, "protocol")
