@@ -267,6 +267,13 @@ func TestProtocolRunFiles(t *testing.T) {
 		doc.Params["resistance_mmhg_s_per_ml"] != 1 || doc.Beats[1]["hr_bpm"].(float64) != 60 || math.Abs(doc.Beats[2]["hr_bpm"].(float64)-100) > 1e-9 {
 		t.Errorf("protocol %q scenario %q params %v, %d beats", doc.Protocol, doc.Scenario, doc.Params, len(doc.Beats))
 	}
+	// A run without a load change has no ESPVR to fit.
+	hold := filepath.Join(dir, "hold.yaml")
+	os.WriteFile(hold, []byte("version: 1\nsteps:\n  - {label: rest, hold: 8}\n"), 0o644)
+	_, out, _ = runCLI(t, "protocol", "run", hold, "--format", "json")
+	if !strings.Contains(out, `"espvr_fit": null`) || !strings.Contains(out, "preload did not change enough") {
+		t.Errorf("a steady run should not fit an ESPVR")
+	}
 }
 
 func TestProtocolBadInput(t *testing.T) {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/stat"
 
 	"pvcouple/model"
@@ -31,6 +32,12 @@ type ESPVRFit struct {
 // MinESPVRBeats is the fewest loops an ESPVR is fitted to.
 const MinESPVRBeats = 5
 
+// MinESPVRSpan is the least spread of the end-systolic volumes, mL, that an
+// ESPVR is fitted to: a line through points bunched closer than this follows
+// noise, not the ESPVR (common practice, no source; an occlusion moves ESV by
+// tens of mL).
+const MinESPVRSpan = 1.0
+
 // FitESPVR fits P = Ees·(V − V0) to the end-systolic points of the loops by the
 // iterated maximal-elastance method (SCIENCE.md §6): guess V0, take each loop's
 // point of maximal P/(V − V0), fit a line by least squares, take its volume
@@ -52,6 +59,9 @@ func FitESPVR(beats []model.BeatSamples, v0Guess float64) (ESPVRFit, error) {
 				return ESPVRFit{}, fmt.Errorf("loop %d: %w", i+1, err)
 			}
 			vs[i], ps[i] = p.V, p.P
+		}
+		if lo, hi := floats.Min(vs), floats.Max(vs); !(hi-lo >= MinESPVRSpan) {
+			return ESPVRFit{}, fmt.Errorf("end-systolic volumes span only %.2g mL (need %g mL): preload did not change enough", hi-lo, MinESPVRSpan)
 		}
 		alpha, beta := stat.LinearRegression(vs, ps, nil, false)
 		if !(beta > 0) {

@@ -46,3 +46,16 @@ func TestFitESPVRRecoversLine(t *testing.T) {
 		t.Error("3 loops accepted")
 	}
 }
+
+// Loops that barely differ (a steady run) give no ESPVR: a line through
+// bunched points would follow noise.
+func TestFitESPVRRefusesBunchedPoints(t *testing.T) {
+	var beats []model.BeatSamples
+	for i := 0; i < 8; i++ {
+		esv := 50 + 0.01*float64(i)
+		beats = append(beats, rectLoop(esv+60, esv, 2*(esv-5)))
+	}
+	if _, err := FitESPVR(beats, 0); err == nil {
+		t.Error("fitted an ESPVR to end-systolic volumes 0.07 mL apart")
+	}
+}
