@@ -45,7 +45,7 @@ type RunBeat struct {
 // steady state of the initial parameters, as after a long stable baseline.
 //
 // A Transient is a pull iterator: Next integrates and returns one beat (about
-// a tenth of a millisecond of work at rest), so a caller can play a run at any
+// under half a millisecond of work at rest), so a caller can play a run at any
 // pace, show beats as they come and stop at any time. It is not safe for
 // concurrent use.
 type Transient struct {
