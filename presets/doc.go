@@ -1,5 +1,6 @@
-// Package presets holds pvcouple's scenario files: the YAML schema, its strict
-// loader, and the built-in scenarios embedded in the binary.
+// Package presets holds pvcouple's scenario and protocol files: the YAML
+// schemas, their strict loaders, the expansion of a protocol into per-beat
+// parameters, and the built-in scenarios and protocols embedded in the binary.
 //
 // A scenario file (version 1) looks like this:
 //
@@ -15,6 +16,31 @@
 //	baseline:                 # optional: the state what-ifs are compared with
 //	  ...                     # same rules as params
 //
+// A protocol file (version 1) is a list of labelled steps that change the
+// levers between beats (see Protocol.Expand for the exact schedule):
+//
+//	version: 1
+//	name: my-occlusion        # optional: the file's base name otherwise
+//	description: one line shown in lists
+//	notes: |
+//	  free text
+//	steps:
+//	  - label: baseline       # every step has a one-line label (at most 60 characters)
+//	    hold: 5               # hold: leave the levers alone for 5 beats
+//	  - label: occlusion
+//	    ramp:                 # ramp: move in equal parts over `beats`, reaching the target on the last
+//	      filling_pressure_mmhg: {factor: 0.4}   # target: a value, `initial` or {factor: F}
+//	    beats: 12             # required for a ramp
+//	  - label: pressor
+//	    scale: {resistance_mmhg_s_per_ml: 1.5}   # scale: multiply at once
+//	    beats: 10             # set and scale: beats at the new values (default 1)
+//	  - label: release
+//	    set: {filling_pressure_mmhg: initial}    # set: a value, or `initial` (the value before step 1)
+//
+// Built-in protocols are embedded from protocols/*.yaml. A protocol holds at
+// most MaxProtocolBeats beats.
+//
 // Loading is strict: unknown or duplicate keys, wrong types, out-of-range
-// values and a second YAML document are errors naming the file, line and key.
+// values, YAML aliases, files over MaxFileSize and a second YAML document are
+// errors naming the file, line and key.
 package presets
