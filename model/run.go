@@ -44,6 +44,11 @@ type RunBeat struct {
 // transient, not a string of steady states). The run starts from the periodic
 // steady state of the initial parameters, as after a long stable baseline.
 //
+// A beat runs from activation onset to the next onset, so a change acts on
+// that beat's contraction, ejection and relaxation at once, while its
+// end-diastolic volume was filled in the previous beat: a change of filling
+// pressure shows in EDV one beat later, as after a caval occlusion.
+//
 // A Transient is a pull iterator: Next integrates and returns one beat (about
 // under half a millisecond of work at rest), so a caller can play a run at any
 // pace, show beats as they come and stop at any time. It is not safe for
