@@ -141,7 +141,9 @@ def measure(model, segments, events):
     dpdv = e * ees + (1 - e) * A * B * np.exp(B * x)
     dpdt = de * (ees * x - A * np.expm1(B * x)) + dpdv * (qin - qout)
 
-    ied = int(np.argmax(vs))
+    imax = int(np.argmax(dpdt))
+    last = imax if imax > 0 else len(ts) - 1
+    ied = int(np.argmax(vs[:last + 1]))  # largest volume before peak dP/dt
     edv, edp = vs[ied], plv[ied]
     floor = max(1.0, 0.02 * (edv - v0))
     ratio = np.where(x > floor, plv / np.where(x > floor, x, 1.0), -np.inf)
