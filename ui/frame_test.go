@@ -33,22 +33,33 @@ var (
 	keyDown = tea.KeyMsg{Type: tea.KeyDown}
 )
 
-// press sends a key to m and runs the commands it returns (the solve)
-// synchronously, feeding their messages back, as the program would.
-func press(m *Model, msgs ...tea.Msg) {
-	for _, msg := range msgs {
-		_, cmd := m.Update(msg)
-		for cmd != nil {
-			out := cmd()
-			if out == nil {
-				break
+// press sends messages to m and runs the commands they return (the solve)
+// synchronously, feeding their messages back, as the program would. It
+// reports whether a command asked to quit.
+func press(m *Model, msgs ...tea.Msg) (quit bool) {
+	var run func(cmd tea.Cmd)
+	run = func(cmd tea.Cmd) {
+		if cmd == nil {
+			return
+		}
+		switch out := cmd().(type) {
+		case nil:
+		case tea.QuitMsg:
+			quit = true
+		case tea.BatchMsg:
+			for _, c := range out {
+				run(c)
 			}
-			if _, isQuit := out.(tea.QuitMsg); isQuit {
-				break
-			}
-			_, cmd = m.Update(out)
+		default:
+			_, next := m.Update(out)
+			run(next)
 		}
 	}
+	for _, msg := range msgs {
+		_, cmd := m.Update(msg)
+		run(cmd)
+	}
+	return quit
 }
 
 // BenchmarkNudgeFrame is one nudge of filling pressure at 120×40 in 256

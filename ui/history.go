@@ -2,10 +2,12 @@ package ui
 
 import "pvcouple/model"
 
-// snapshot is what undo and redo restore: the levers and the baseline.
+// snapshot is what undo and redo restore: the scenario's name, the levers
+// and the baseline.
 type snapshot struct {
-	target model.Params
-	base   *model.Steady
+	name, origin string
+	target       model.Params
+	base         *model.Steady
 }
 
 // maxHistory caps the undo steps kept.

@@ -111,7 +111,9 @@ func (m *Model) load(sc *presets.Scenario, origin string) error {
 }
 
 // snapshot is the state undo returns to.
-func (m *Model) snapshot() snapshot { return snapshot{target: m.st.target, base: m.st.base} }
+func (m *Model) snapshot() snapshot {
+	return snapshot{name: m.st.name, origin: m.st.origin, target: m.st.target, base: m.st.base}
+}
 
 // setStatus says what just happened.
 func (m *Model) setStatus(s string) { m.status, m.statusErr = s, false }

@@ -6,6 +6,7 @@ import (
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
 
 	"pvcouple/presets"
 )
@@ -74,7 +75,8 @@ func (m *Model) renderPicker() string {
 		if i == m.picker.sel {
 			mark, name = s.Selected.Render("▸ "), s.Selected.Render(name)
 		}
-		b.WriteString(mark + name + s.Dim.Render(m.picker.descs[i]) + "\n")
+		desc := ansi.Truncate(m.picker.descs[i], max(m.w-24, 10), "…")
+		b.WriteString(mark + name + s.Dim.Render(desc) + "\n")
 	}
 	b.WriteString("\n" + s.Dim.Render("↑/↓ choose · Enter load · Esc cancel"))
 	return s.Box.Render(b.String())

@@ -107,6 +107,10 @@ func (m *Model) save(path string, force bool) {
 		b := m.st.base.Params
 		sc.Baseline = &b
 	}
+	if dir := filepath.Dir(path); !isDir(dir) {
+		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
+		return
+	}
 	err := presets.SaveScenario(path, sc, force)
 	switch {
 	case errors.Is(err, presets.ErrExists):
@@ -114,7 +118,7 @@ func (m *Model) save(path string, force bool) {
 		m.mode = modeConfirm
 		m.setError(path + " exists. Overwrite it? y overwrites, any other key keeps it.")
 	case err != nil:
-		m.setError(err.Error())
+		m.setError("Not saved: " + err.Error())
 	default:
 		m.lastPath = path
 		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", path))
@@ -144,4 +148,10 @@ func expandHome(p string) string {
 		}
 	}
 	return p
+}
+
+// isDir reports whether path is an existing directory.
+func isDir(path string) bool {
+	fi, err := os.Stat(path)
+	return err == nil && fi.IsDir()
 }

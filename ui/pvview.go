@@ -67,7 +67,8 @@ func (v *pvView) Render(st *state) string {
 		}
 	}
 	if !v.fixed || !v.f.holds(b) {
-		v.f = fitFrame(b, max(2, v.w/12), max(2, v.h/5), pvHeadroom)
+		nx, ny := tickCounts(v.w, v.h)
+		v.f = fitFrame(b, nx, ny, pvHeadroom)
 		v.fixed = true
 	}
 	var ss []series

@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
 )
 
 // View implements tea.Model: the whole screen, one line per terminal row.
@@ -28,7 +29,30 @@ func (m *Model) View() string {
 	default:
 		body = m.renderBody()
 	}
-	return trimLines(m.topBar() + "\n" + body + "\n" + m.statusLine() + "\n" + m.keyLine())
+	return trimLines(m.topBar() + "\n" + body + "\n" + m.footer())
+}
+
+// footer is the status line and the key line. A status too long for one
+// line (an error naming a file, a key and a range) takes the key line too.
+func (m *Model) footer() string {
+	if m.mode != modePrompt && ansi.StringWidth(m.status)+3 > m.w {
+		st := m.styles.Status
+		prefix := " "
+		if m.statusErr {
+			st, prefix = m.styles.Error, " ✗ "
+		}
+		wrapped := ansi.Wrap(prefix+m.status, m.w, " /")
+		lines := strings.SplitN(wrapped, "\n", 3)
+		if len(lines) == 3 {
+			lines = lines[:2]
+			lines[1] = ansi.Truncate(lines[1], m.w-1, "") + "…"
+		}
+		for len(lines) < 2 {
+			lines = append(lines, "")
+		}
+		return st.Render(padRight(lines[0], m.w)) + "\n" + st.Render(padRight("   "+strings.TrimLeft(lines[1], " "), m.w))
+	}
+	return m.statusLine() + "\n" + m.keyLine()
 }
 
 // trimLines drops the spaces at the end of every line: Bubble Tea's

@@ -120,3 +120,10 @@ func fitFrame(b bounds, nx, ny int, headroom float64) frame {
 func (f frame) holds(b bounds) bool {
 	return b.empty() || (f.X.contains(b.X0, b.X1) && f.Y.contains(b.Y0, b.Y1))
 }
+
+// tickCounts is the number of tick intervals to aim at on a plot of outer
+// size w × h: about one every 12 columns and one every 4 rows, within limits
+// that keep the labels apart and the axis useful.
+func tickCounts(w, h int) (nx, ny int) {
+	return min(max(w/12, 3), 10), min(max((h-3)/4, 3), 8)
+}

@@ -75,9 +75,10 @@ func (v *traceView) Render(st *state) string {
 		bv.addPoint(0, math.Min(0, s.Params.V0))
 	}
 	if !v.fixed || !v.fp.holds(bp) || !v.fv.holds(bv) {
-		nx := max(2, v.w/12)
-		v.fp = fitFrame(bp, nx, max(2, v.pres.h/5), 0.1)
-		v.fv = fitFrame(bv, nx, max(2, v.vol.h/4), 0.1)
+		nx, nyp := tickCounts(v.w, v.pres.h)
+		_, nyv := tickCounts(v.w, v.vol.h)
+		v.fp = fitFrame(bp, nx, nyp, 0.1)
+		v.fv = fitFrame(bv, nx, nyv, 0.1)
 		// One time axis for both: the wider of the two fits.
 		if v.fv.X.Hi > v.fp.X.Hi {
 			v.fp.X = v.fv.X
@@ -98,7 +99,7 @@ func (v *traceView) Render(st *state) string {
 		n := len(c.T) - 1
 		pl = append(pl, label{X: ms[0][n], Y: c.PAO[n], Text: "Ao", Style: v.s.Aortic, Dx: 1, Dy: -1})
 		i := argmax(c.PLV)
-		pl = append(pl, label{X: ms[0][i], Y: c.PLV[i], Text: "LV", Style: v.s.Loop, Dx: 2})
+		pl = append(pl, label{X: ms[0][i], Y: c.PLV[i], Text: "LV", Style: v.s.Loop, Dx: 1, Dy: -1})
 	}
 	v.cache = v.pres.Render(v.fp, ps, pl) + "\n" + v.vol.Render(v.fv, vs, nil)
 	v.cacheShown, v.cacheBase = st.shown, st.base

@@ -19,6 +19,16 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case solvedMsg:
 		return m, m.solved(msg)
 	case tea.KeyMsg:
+		// Keys typed faster than they are read arrive as one message with
+		// several runes ("kkk" from a held-down k); outside the path prompt
+		// each is a key of its own.
+		if msg.Type == tea.KeyRunes && len(msg.Runes) > 1 && !msg.Paste && m.mode != modePrompt {
+			var cmds []tea.Cmd
+			for _, r := range msg.Runes {
+				cmds = append(cmds, m.key(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}, Alt: msg.Alt}))
+			}
+			return m, tea.Batch(cmds...)
+		}
 		return m, m.key(msg)
 	}
 	return m, m.views[m.cur].Update(msg, &m.st)
@@ -164,7 +174,12 @@ func (m *Model) revert() {
 
 // restore puts a snapshot on screen and asks for its solve.
 func (m *Model) restore(s snapshot) tea.Cmd {
-	m.st.target, m.st.base = s.target, s.base
+	if s.name != m.st.name || s.origin != m.st.origin {
+		for _, v := range m.views {
+			v.Refit() // another scenario: fit its loops afresh
+		}
+	}
+	m.st.name, m.st.origin, m.st.target, m.st.base = s.name, s.origin, s.target, s.base
 	m.gen++
 	m.pending = ""
 	if s.target == s.base.Params {
