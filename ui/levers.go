@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/charmbracelet/x/ansi"
+
 	"pvcouple/model"
 )
 
@@ -38,7 +40,7 @@ func (p *leverPanel) Render(st *state, sel int) string {
 	if p.strip {
 		l := model.Levers[sel]
 		head := fmt.Sprintf(" Levers · %s: %s", l.Name, l.Spec().Meaning)
-		lines = append(lines, s.Heading.Render(padRight(head, p.w)))
+		lines = append(lines, s.Heading.Render(padRight(ansi.Truncate(head, p.w, "…"), p.w)))
 		half := (len(model.Levers) + 1) / 2
 		cw := p.w / 2
 		for r := 0; r < half; r++ {

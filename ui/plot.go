@@ -23,9 +23,14 @@ type label struct {
 	X, Y  float64
 	Text  string
 	Style lipgloss.Style
-	// Dx, Dy shift the text from the point's cell, in cells (Dy > 0 is down).
-	Dx, Dy int
+	// At lists places for the text's first cell relative to the point's
+	// cell, in cells (y down): the first whose cells are all empty is used,
+	// else the first. None means at the point itself.
+	At []offset
 }
+
+// offset is a shift in cells, y down.
+type offset struct{ X, Y int }
 
 // plot draws series as braille dots with ASCII axes: the y axis title (and
 // a legend) in the top row, tick labels left of the drawing area, the x axis
@@ -279,22 +284,39 @@ func (p *plot) draw(f frame, s series) {
 	}
 }
 
-// place writes a label at its point's cell, kept inside the drawing area.
+// place writes a label at the first of its places where it covers nothing
+// already drawn (else at the first), kept inside the drawing area.
 func (p *plot) place(f frame, l label) {
-	if _, _, ok := finite(l.X, l.Y); !ok || l.Text == "" {
+	if _, _, ok := finite(l.X, l.Y); !ok || l.Text == "" || len(l.Text) > p.cw {
 		return
 	}
 	col, row := p.cell(f, l.X, l.Y)
-	col, row = col+l.Dx, row+l.Dy
-	col = min(max(col, 0), p.cw-len(l.Text))
-	row = min(max(row, 0), p.ch-1)
-	if col < 0 {
-		return
+	at := l.At
+	if len(at) == 0 {
+		at = []offset{{}}
+	}
+	pos := func(o offset) (int, int) {
+		return min(max(col+o.X, 0), p.cw-len(l.Text)), min(max(row+o.Y, 0), p.ch-1)
+	}
+	c, r := pos(at[0])
+	for _, o := range at {
+		cc, rr := pos(o)
+		free := true
+		for k := range len(l.Text) {
+			if p.cells[rr*p.cw+cc+k] != 0 {
+				free = false
+				break
+			}
+		}
+		if free {
+			c, r = cc, rr
+			break
+		}
 	}
 	idx := p.pal.index(l.Style)
-	for k, r := range l.Text {
-		p.cells[row*p.cw+col+k] = r
-		p.sty[row*p.cw+col+k] = idx
+	for k, ch := range l.Text {
+		p.cells[r*p.cw+c+k] = ch
+		p.sty[r*p.cw+c+k] = idx
 	}
 }
 

@@ -91,7 +91,7 @@ func (v *pvView) Render(st *state) string {
 		ls = append(ls,
 			endLabel(v.f, es, "ESPVR", v.s.ESPVR),
 			endLabel(v.f, ed, "EDPVR", v.s.EDPVR),
-			label{X: m.EDV, Y: 0, Text: "Ea", Style: v.s.Ea, Dx: 1})
+			label{X: m.EDV, Y: 0, Text: "Ea", Style: v.s.Ea, At: []offset{{1, 0}, {1, -1}, {2, -1}, {-3, 0}}})
 	}
 	v.cache = v.plot.Render(v.f, ss, ls)
 	v.cacheShown, v.cacheBase = st.shown, st.base
@@ -127,7 +127,9 @@ func (v *pvView) edpvr(p model.Params, s lipgloss.Style, dotted bool) series {
 func endLabel(f frame, s series, text string, st lipgloss.Style) label {
 	for i := len(s.X) - 1; i > 0; i-- {
 		if _, _, x1, y1, in := clip(f, s.X[i-1], s.Y[i-1], s.X[i], s.Y[i]); in {
-			return label{X: x1, Y: y1, Text: text, Style: st, Dx: -len(text) - 1}
+			n := len(text)
+			return label{X: x1, Y: y1, Text: text, Style: st,
+				At: []offset{{-n - 1, 0}, {-n - 1, 1}, {-n, 1}, {1, 0}, {1, 1}, {-n - 2, 2}}}
 		}
 	}
 	return label{}

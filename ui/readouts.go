@@ -81,9 +81,9 @@ type columns struct{ label, val, unit, base, delta, pct int }
 // cols returns the column widths: wide with a base column, narrow without.
 func (p *readoutPanel) cols() columns {
 	if p.wide {
-		return columns{label: 7, val: 8, unit: 8, base: 8, delta: 8, pct: 7}
+		return columns{label: 7, val: 8, unit: 8, base: 8, delta: 7, pct: 7}
 	}
-	return columns{label: 6, val: 7, unit: 7, delta: 7, pct: 7}
+	return columns{label: 6, val: 7, unit: 7, delta: 6, pct: 7}
 }
 
 // Render draws the panel from the loop on screen and the baseline: exactly h
@@ -94,11 +94,11 @@ func (p *readoutPanel) Render(st *state) string {
 	}
 	s, c := p.s, p.cols()
 	var lines []string
-	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, "Readout", c.val, "now", c.unit, "unit")
+	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, "", c.val, "now", c.unit, "unit")
 	if p.wide {
 		head = fmt.Sprintf(" %-*s%*s  %-*s%*s", c.label, "Readout", c.val, "now", c.unit, "unit", c.base, "base")
 	}
-	head += fmt.Sprintf("%*s%*s", c.delta, "Δ", c.pct, "%")
+	head += fmt.Sprintf(" %*s %*s", c.delta, "Δ", c.pct, "%")
 	lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 	for _, r := range p.rows {
 		lines = append(lines, p.row(r, st, c))
@@ -139,7 +139,7 @@ func (p *readoutPanel) row(r readout, st *state, c columns) string {
 	}
 	line := label + val + cue + " " + s.Dim.Render(dim)
 	d, pct := model.Change(now, base)
-	line += fmt.Sprintf("%*s%*s", c.delta, fmtDelta(d, r.decimals), c.pct, fmtPct(pct))
+	line += fmt.Sprintf(" %*s %*s", c.delta, fmtDelta(d, r.decimals), c.pct, fmtPct(pct))
 	return padRight(line, p.w)
 }
 

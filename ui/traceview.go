@@ -97,9 +97,9 @@ func (v *traceView) Render(st *state) string {
 		ps = append(ps, series{X: ms[0], Y: c.PAO, Style: v.s.Aortic}, series{X: ms[0], Y: c.PLV, Style: v.s.Loop})
 		vs = append(vs, series{X: ms[0], Y: c.VLV, Style: v.s.Loop})
 		n := len(c.T) - 1
-		pl = append(pl, label{X: ms[0][n], Y: c.PAO[n], Text: "Ao", Style: v.s.Aortic, Dx: 1, Dy: -1})
+		pl = append(pl, label{X: ms[0][n], Y: c.PAO[n], Text: "Ao", Style: v.s.Aortic, At: []offset{{1, -1}, {1, 0}, {1, 1}, {-3, -1}}})
 		i := argmax(c.PLV)
-		pl = append(pl, label{X: ms[0][i], Y: c.PLV[i], Text: "LV", Style: v.s.Loop, Dx: 1, Dy: -1})
+		pl = append(pl, label{X: ms[0][i], Y: c.PLV[i], Text: "LV", Style: v.s.Loop, At: []offset{{1, -1}, {-3, -1}, {2, 0}, {0, -2}}})
 	}
 	v.cache = v.pres.Render(v.fp, ps, pl) + "\n" + v.vol.Render(v.fv, vs, nil)
 	v.cacheShown, v.cacheBase = st.shown, st.base

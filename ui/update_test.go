@@ -524,7 +524,7 @@ func TestTooSmallWindow(t *testing.T) {
 		t.Error("a lever moved while the window was too small")
 	}
 	press(m, tea.WindowSizeMsg{Width: 80, Height: 24})
-	if v := m.View(); !strings.Contains(v, "Readout") || len(strings.Split(v, "\n")) != 24 {
+	if v := m.View(); !strings.Contains(v, "PVA") || len(strings.Split(v, "\n")) != 24 {
 		t.Errorf("after enlarging: %d lines", len(strings.Split(v, "\n")))
 	}
 	if !keys(m, "q") {
