@@ -19,13 +19,21 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case solvedMsg:
 		return m, m.solved(msg)
 	case tea.KeyMsg:
+		// Esc and a key typed quickly after it (or sent together over a
+		// slow link) arrive as Alt and the key: take them as both.
+		if msg.Alt && msg.Type == tea.KeyRunes {
+			c1 := m.key(tea.KeyMsg{Type: tea.KeyEsc})
+			msg.Alt = false
+			_, c2 := m.Update(msg)
+			return m, tea.Batch(c1, c2)
+		}
 		// Keys typed faster than they are read arrive as one message with
 		// several runes ("kkk" from a held-down k); outside the path prompt
 		// each is a key of its own.
 		if msg.Type == tea.KeyRunes && len(msg.Runes) > 1 && !msg.Paste && m.mode != modePrompt {
 			var cmds []tea.Cmd
 			for _, r := range msg.Runes {
-				cmds = append(cmds, m.key(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}, Alt: msg.Alt}))
+				cmds = append(cmds, m.key(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}}))
 			}
 			return m, tea.Batch(cmds...)
 		}

@@ -552,3 +552,17 @@ func TestFrameFitsWindow(t *testing.T) {
 		}
 	}
 }
+
+// Esc and a key sent together arrive as Alt and the key; both act.
+func TestEscThenKeyTogether(t *testing.T) {
+	m := sized(t, "normal")
+	keys(m, "?")
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("2"), Alt: true})
+	if m.mode != modeMain || m.cur != 1 {
+		t.Errorf("alt+2 in the help: mode %d, view %d; want the help closed and view 2", m.mode, m.cur)
+	}
+	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("k"), Alt: true})
+	if fill(m) != 11 {
+		t.Errorf("alt+k: filling pressure %g, want 11", fill(m))
+	}
+}
