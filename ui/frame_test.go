@@ -129,8 +129,8 @@ func settle(buf *lockedBuffer, quiet time.Duration) int {
 // with colour profile p and returns the bytes written for each of n nudges
 // of filling pressure (up, then down, alternating in runs of four), the key
 // frame and the solved frame together.
-func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int) []int {
-	m := newTestModel(t, "normal", p)
+func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, setup ...tea.Msg) []int {
+	m := newTestModel(t, preset, p)
 	var buf lockedBuffer
 	prog := NewProgram(m, tea.WithOutput(&buf), tea.WithInput(nil), tea.WithoutSignals())
 	done := make(chan struct{})
@@ -141,6 +141,9 @@ func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int) []int {
 		}
 	}()
 	prog.Send(tea.WindowSizeMsg{Width: w, Height: h})
+	for _, msg := range setup {
+		prog.Send(msg)
+	}
 	const quiet = 60 * time.Millisecond // several frames at 60 fps
 	last := settle(&buf, quiet)
 	var sizes []int
@@ -166,16 +169,27 @@ func median(x []int) int {
 }
 
 // TestBytesPerNudge holds the explorer to ≤ 8 KB written per nudge at
-// 120×40 in colour (about 64 ms at 1 Mbit/s), median over 24 nudges.
+// 120×40 in colour (about 64 ms at 1 Mbit/s), median over 24 nudges of
+// filling pressure; other levers, views and scenarios are held to it too.
 func TestBytesPerNudge(t *testing.T) {
 	if testing.Short() {
 		t.Skip("takes a few seconds")
 	}
+	tab := tea.KeyMsg{Type: tea.KeyTab}
 	for _, c := range []struct {
-		name string
-		p    termenv.Profile
-	}{{"256 colours", termenv.ANSI256}, {"true colour", termenv.TrueColor}} {
-		sizes := nudgeBytes(t, c.p, 120, 40, 24)
+		name   string
+		p      termenv.Profile
+		preset string
+		setup  []tea.Msg
+	}{
+		{"filling pressure, 256 colours", termenv.ANSI256, "normal", nil},
+		{"filling pressure, true colour", termenv.TrueColor, "normal", nil},
+		{"filling pressure, 16 colours", termenv.ANSI, "normal", nil},
+		{"Ees, hfref, 256 colours", termenv.ANSI256, "hfref", []tea.Msg{tab}},
+		{"heart rate, 256 colours", termenv.ANSI256, "normal", []tea.Msg{tab, tab, tab}},
+		{"filling pressure, beat traces, 256 colours", termenv.ANSI256, "normal", []tea.Msg{tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("2")}}},
+	} {
+		sizes := nudgeBytes(t, c.p, 120, 40, 16, c.preset, c.setup...)
 		med := median(sizes)
 		t.Logf("%s: median %d bytes per nudge (all: %v)", c.name, med, sizes)
 		if med > 8192 {

@@ -64,9 +64,6 @@ func newReadoutPanel(s *Styles) *readoutPanel {
 // readoutWideW is the width at which the panel shows the base column.
 const readoutWideW = 50
 
-// readoutLines is the height the panel needs: a heading and one line a row.
-func (p *readoutPanel) lines() int { return 1 + len(p.rows) }
-
 // SetSize sets the panel's size.
 func (p *readoutPanel) SetSize(w, h int) {
 	if w != p.w || h != p.h {

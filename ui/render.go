@@ -18,7 +18,7 @@ func (m *Model) View() string {
 	if m.tooSmall() {
 		msg := fmt.Sprintf("Enlarge the window: pvcouple needs %d×%d, this one is %d×%d.\nq quits.",
 			minWidth, minHeight, m.w, m.h)
-		return trimLines(lipgloss.Place(m.w, m.h, lipgloss.Center, lipgloss.Center, msg))
+		return trimLines(m.styles.Renderer().Place(m.w, m.h, lipgloss.Center, lipgloss.Center, msg))
 	}
 	var body string
 	switch m.mode {
@@ -101,7 +101,7 @@ func lineAt(lines []string, i, w int) string {
 
 // overlay centres a box in the body's area.
 func (m *Model) overlay(box string) string {
-	return lipgloss.Place(m.w, m.h-3, lipgloss.Center, lipgloss.Center, box)
+	return m.styles.Renderer().Place(m.w, m.h-3, lipgloss.Center, lipgloss.Center, box)
 }
 
 // topBar names the program, the views (the one on screen highlighted and
