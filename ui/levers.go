@@ -20,6 +20,10 @@ type leverPanel struct {
 
 func newLeverPanel(s *Styles) *leverPanel { return &leverPanel{s: s} }
 
+// leverColumnW is the width a column needs for the levers' full names;
+// a narrower column uses the short names.
+const leverColumnW = 48
+
 // leverColumnLines is the height of the panel in a column.
 func leverColumnLines() int { return 1 + len(model.Levers) }
 
@@ -51,10 +55,14 @@ func (p *leverPanel) Render(st *state, sel int) string {
 			lines = append(lines, padRight(line, p.w))
 		}
 	} else {
+		short := p.w < leverColumnW
 		head := fmt.Sprintf(" %-20s%7s  %-10s%7s", "Levers", "now", "unit", "base")
+		if short {
+			head = fmt.Sprintf(" %-8s%6s %-9s%7s", "Levers", "now", "unit", "(base)")
+		}
 		lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 		for i := range model.Levers {
-			lines = append(lines, p.cell(i, st.target, base, sel, p.w, false))
+			lines = append(lines, p.cell(i, st.target, base, sel, p.w, short))
 		}
 	}
 	for len(lines) < p.h {

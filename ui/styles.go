@@ -59,7 +59,7 @@ func NewStyles(r *lipgloss.Renderer) *Styles {
 		orange = colour("172", "3")
 		teal   = colour("37", "6")
 		red    = colour("203", "1")
-		cyan   = colour("74", "4")
+		cyan   = colour("74", "12")
 	)
 	n := r.NewStyle
 	return &Styles{
