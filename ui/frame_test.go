@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"io"
 	"sort"
+	"strings"
 	"sync"
 	"testing"
 	"time"
@@ -105,6 +106,12 @@ func (l *lockedBuffer) Write(p []byte) (int, error) {
 	return l.b.Write(p)
 }
 
+func (l *lockedBuffer) String() string {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.String()
+}
+
 func (l *lockedBuffer) Len() int {
 	l.mu.Lock()
 	defer l.mu.Unlock()
@@ -159,6 +166,14 @@ func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, set
 	}
 	prog.Quit()
 	<-done
+	// Nothing asks the terminal a question whose answer a remote link could
+	// hold up: no colour (OSC 10/11), device-attribute or cursor queries.
+	all := buf.String()
+	for _, q := range []string{"\x1b]10;?", "\x1b]11;?", "\x1b[c", "\x1b[>c", "\x1b[6n", "\x1b[?u"} {
+		if strings.Contains(all, q) {
+			t.Errorf("the program sent the terminal query %q", q)
+		}
+	}
 	return sizes
 }
 
