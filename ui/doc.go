@@ -1,0 +1,12 @@
+// Package ui is pvcouple's interactive explorer: a full-screen Bubble Tea
+// program that shows the left ventricle's steady pressure–volume loop against
+// a baseline, the coupling readouts and the levers that move them.
+//
+// The root Model owns the state (levers, the loop on screen, the baseline,
+// undo history) and solves the model off the UI goroutine, one solve at a
+// time, always for the latest lever setting. The main area shows one of
+// several views (see view.go); the readout and lever panels stay beside it.
+//
+// It is a model for research and education planning, not for treating
+// patients.
+package ui

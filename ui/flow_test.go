@@ -1,0 +1,66 @@
+package ui
+
+import (
+	"bytes"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/exp/teatest"
+	"github.com/muesli/termenv"
+
+	"pvcouple/presets"
+)
+
+// TestFlow runs the whole program as a user would: start, nudge preload
+// up three times, see SV and ESP rise on screen, save the scenario, quit.
+func TestFlow(t *testing.T) {
+	m := newTestModel(t, "normal", termenv.Ascii)
+	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(120, 40))
+	out := tm.Output()
+	wait := func(what string) {
+		t.Helper()
+		teatest.WaitFor(t, out, func(b []byte) bool { return bytes.Contains(b, []byte(what)) },
+			teatest.WithDuration(5*time.Second), teatest.WithCheckInterval(10*time.Millisecond))
+	}
+	wait("Filling pressure")
+	first := m.st.shown.Metrics // read before any key: the program has not touched it yet
+
+	for range 3 {
+		tm.Send(tea.KeyMsg{Type: tea.KeyUp})
+	}
+	wait("Filling pressure 12 → 13 mmHg · SV")
+
+	path := filepath.Join(t.TempDir(), "flow.yaml")
+	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("s")})
+	wait("Save scenario to:")
+	tm.Send(tea.KeyMsg{Type: tea.KeyCtrlU})
+	tm.Type(path)
+	tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
+	wait("Saved levers and baseline")
+	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("q")})
+
+	final := tm.FinalModel(t, teatest.WithFinalTimeout(5*time.Second)).(*Model)
+	screen := final.View()
+	for _, label := range []string{"SV", "ESP"} {
+		row := screenRow(t, screen, label)
+		now, err1 := strconv.ParseFloat(strings.TrimRight(row[1], "▲▼"), 64)
+		base, err2 := strconv.ParseFloat(row[len(row)-3], 64)
+		if err1 != nil || err2 != nil || !(now > base) || !strings.HasPrefix(row[len(row)-2], "+") {
+			t.Errorf("%s row %q: want now above base with a positive Δ", label, row)
+		}
+	}
+	if row := screenRow(t, screen, "SV"); row[1] == fmtNum(first.SV, 1) {
+		t.Errorf("SV on screen still %s", row[1])
+	}
+	sc, err := presets.LoadScenario(path)
+	if err != nil {
+		t.Fatalf("saved file: %v", err)
+	}
+	if sc.Params.FillingPressure != 13 || sc.Baseline == nil || sc.Baseline.FillingPressure != 10 {
+		t.Errorf("saved filling pressure %g, baseline %v", sc.Params.FillingPressure, sc.Baseline)
+	}
+}

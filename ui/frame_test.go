@@ -1,0 +1,214 @@
+package ui
+
+import (
+	"bytes"
+	"io"
+	"sort"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/muesli/termenv"
+
+	"pvcouple/presets"
+)
+
+// newTestModel returns the explorer on a preset with styles in profile p.
+func newTestModel(tb testing.TB, preset string, p termenv.Profile) *Model {
+	tb.Helper()
+	sc, err := presets.Get(preset)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	m, err := New(sc, "preset "+preset, NewStyles(NewRenderer(io.Discard, p)))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return m
+}
+
+var (
+	keyUp   = tea.KeyMsg{Type: tea.KeyUp}
+	keyDown = tea.KeyMsg{Type: tea.KeyDown}
+)
+
+// press sends messages to m and runs the commands they return (the solve)
+// synchronously, feeding their messages back, as the program would. It
+// reports whether a command asked to quit.
+func press(m *Model, msgs ...tea.Msg) (quit bool) {
+	var run func(cmd tea.Cmd)
+	run = func(cmd tea.Cmd) {
+		if cmd == nil {
+			return
+		}
+		switch out := cmd().(type) {
+		case nil:
+		case tea.QuitMsg:
+			quit = true
+		case tea.BatchMsg:
+			for _, c := range out {
+				run(c)
+			}
+		default:
+			_, next := m.Update(out)
+			run(next)
+		}
+	}
+	for _, msg := range msgs {
+		_, cmd := m.Update(msg)
+		run(cmd)
+	}
+	return quit
+}
+
+// BenchmarkNudgeFrame is one nudge of filling pressure at 120×40 in 256
+// colours: Update for the key, the solve it starts (warm), Update for the
+// result and View. Target: ≤ 5 ms on the project's 2-core machine.
+func BenchmarkNudgeFrame(b *testing.B) {
+	m := newTestModel(b, "normal", termenv.ANSI256)
+	press(m, tea.WindowSizeMsg{Width: 120, Height: 40})
+	_ = m.View()
+	i := 0
+	for b.Loop() {
+		k := keyUp
+		if i%2 == 1 {
+			k = keyDown
+		}
+		i++
+		press(m, k)
+		_ = m.View()
+	}
+}
+
+// BenchmarkViewOnly is View alone after a change of the loop on screen
+// (caches dropped), to show how a frame's time splits.
+func BenchmarkViewOnly(b *testing.B) {
+	m := newTestModel(b, "normal", termenv.ANSI256)
+	press(m, tea.WindowSizeMsg{Width: 120, Height: 40})
+	for b.Loop() {
+		m.views[0].(*pvView).cache = ""
+		m.readouts.cache = ""
+		_ = m.View()
+	}
+}
+
+// lockedBuffer is a buffer the renderer writes to while the test reads it.
+type lockedBuffer struct {
+	mu sync.Mutex
+	b  bytes.Buffer
+}
+
+func (l *lockedBuffer) Write(p []byte) (int, error) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.Write(p)
+}
+
+func (l *lockedBuffer) String() string {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.String()
+}
+
+func (l *lockedBuffer) Len() int {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.Len()
+}
+
+// settle waits until nothing has been written for quiet, and returns the
+// length then.
+func settle(buf *lockedBuffer, quiet time.Duration) int {
+	n := buf.Len()
+	for {
+		time.Sleep(quiet)
+		if m := buf.Len(); m == n {
+			return n
+		} else {
+			n = m
+		}
+	}
+}
+
+// nudgeBytes runs the explorer in Bubble Tea's standard renderer at w × h
+// with colour profile p and returns the bytes written for each of n nudges
+// of filling pressure (up, then down, alternating in runs of four), the key
+// frame and the solved frame together.
+func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, setup ...tea.Msg) []int {
+	m := newTestModel(t, preset, p)
+	var buf lockedBuffer
+	prog := NewProgram(m, tea.WithOutput(&buf), tea.WithInput(nil), tea.WithoutSignals())
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		if _, err := prog.Run(); err != nil {
+			t.Error(err)
+		}
+	}()
+	prog.Send(tea.WindowSizeMsg{Width: w, Height: h})
+	for _, msg := range setup {
+		prog.Send(msg)
+	}
+	const quiet = 60 * time.Millisecond // several frames at 60 fps
+	last := settle(&buf, quiet)
+	var sizes []int
+	for i := 0; i < n; i++ {
+		k := keyUp
+		if (i/4)%2 == 1 {
+			k = keyDown
+		}
+		prog.Send(k)
+		now := settle(&buf, quiet)
+		sizes = append(sizes, now-last)
+		last = now
+	}
+	prog.Quit()
+	<-done
+	// Nothing asks the terminal a question whose answer a remote link could
+	// hold up: no colour (OSC 10/11), device-attribute or cursor queries.
+	all := buf.String()
+	for _, q := range []string{"\x1b]10;?", "\x1b]11;?", "\x1b[c", "\x1b[>c", "\x1b[6n", "\x1b[?u"} {
+		if strings.Contains(all, q) {
+			t.Errorf("the program sent the terminal query %q", q)
+		}
+	}
+	return sizes
+}
+
+func median(x []int) int {
+	s := append([]int(nil), x...)
+	sort.Ints(s)
+	return s[len(s)/2]
+}
+
+// TestBytesPerNudge holds the explorer to ≤ 8 KB written per nudge at
+// 120×40 in colour (about 64 ms at 1 Mbit/s), median over 24 nudges of
+// filling pressure; other levers, views and scenarios are held to it too.
+func TestBytesPerNudge(t *testing.T) {
+	if testing.Short() {
+		t.Skip("takes a few seconds")
+	}
+	tab := tea.KeyMsg{Type: tea.KeyTab}
+	for _, c := range []struct {
+		name   string
+		p      termenv.Profile
+		preset string
+		setup  []tea.Msg
+	}{
+		{"filling pressure, 256 colours", termenv.ANSI256, "normal", nil},
+		{"filling pressure, true colour", termenv.TrueColor, "normal", nil},
+		{"filling pressure, 16 colours", termenv.ANSI, "normal", nil},
+		{"Ees, hfref, 256 colours", termenv.ANSI256, "hfref", []tea.Msg{tab}},
+		{"heart rate, 256 colours", termenv.ANSI256, "normal", []tea.Msg{tab, tab, tab}},
+		{"filling pressure, beat traces, 256 colours", termenv.ANSI256, "normal", []tea.Msg{tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("2")}}},
+	} {
+		sizes := nudgeBytes(t, c.p, 120, 40, 16, c.preset, c.setup...)
+		med := median(sizes)
+		t.Logf("%s: median %d bytes per nudge (all: %v)", c.name, med, sizes)
+		if med > 8192 {
+			t.Errorf("%s: median %d bytes per nudge, want ≤ 8192", c.name, med)
+		}
+	}
+}

@@ -1,0 +1,58 @@
+package ui
+
+import "pvcouple/model"
+
+// snapshot is what undo and redo restore: the scenario's name, the levers
+// and the baseline.
+type snapshot struct {
+	name, origin string
+	target       model.Params
+	base         *model.Steady
+}
+
+// maxHistory caps the undo steps kept.
+const maxHistory = 500
+
+// history is the undo and redo stacks.
+type history struct {
+	undo, redo []snapshot
+}
+
+// push records the state before a change and forgets the redo stack.
+func (h *history) push(s snapshot) {
+	if n := len(h.undo); n > 0 && h.undo[n-1] == s {
+		return
+	}
+	h.undo = append(h.undo, s)
+	if len(h.undo) > maxHistory {
+		h.undo = h.undo[len(h.undo)-maxHistory:]
+	}
+	h.redo = h.redo[:0]
+}
+
+// back returns the state to restore on undo, recording cur for redo; ok is
+// false when there is nothing to undo.
+func (h *history) back(cur snapshot) (snapshot, bool) {
+	for len(h.undo) > 0 {
+		s := h.undo[len(h.undo)-1]
+		h.undo = h.undo[:len(h.undo)-1]
+		if s != cur {
+			h.redo = append(h.redo, cur)
+			return s, true
+		}
+	}
+	return snapshot{}, false
+}
+
+// forward returns the state to restore on redo, recording cur for undo.
+func (h *history) forward(cur snapshot) (snapshot, bool) {
+	for len(h.redo) > 0 {
+		s := h.redo[len(h.redo)-1]
+		h.redo = h.redo[:len(h.redo)-1]
+		if s != cur {
+			h.undo = append(h.undo, cur)
+			return s, true
+		}
+	}
+	return snapshot{}, false
+}

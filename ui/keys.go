@@ -1,0 +1,66 @@
+package ui
+
+import "github.com/charmbracelet/bubbles/key"
+
+// KeyMap is every key of the explorer. The help overlay and the key line at
+// the foot of the screen are built from it, so a key added here is listed
+// there.
+type KeyMap struct {
+	Up, Down       key.Binding // nudge the selected lever by a small step
+	BigUp, BigDown key.Binding // nudge by a large step
+	Prev, Next     key.Binding // choose the lever
+	Pin            key.Binding // make the current state the baseline
+	Revert         key.Binding // go back to the baseline
+	Undo, Redo     key.Binding
+	Fit            key.Binding // fit the axes to the loops again
+	Preset         key.Binding // pick a built-in preset
+	Save, Open     key.Binding // save and load a scenario file
+	NextView       key.Binding // switch views
+	GoView         key.Binding // go to a view by its number
+	Help           key.Binding
+	Quit           key.Binding
+
+	// Keys of the prompts, pickers and overlays.
+	Confirm, Cancel key.Binding
+}
+
+// DefaultKeyMap returns the explorer's keys.
+func DefaultKeyMap() KeyMap {
+	return KeyMap{
+		Up:       key.NewBinding(key.WithKeys("up", "k"), key.WithHelp("↑/k", "raise lever")),
+		Down:     key.NewBinding(key.WithKeys("down", "j"), key.WithHelp("↓/j", "lower lever")),
+		BigUp:    key.NewBinding(key.WithKeys("shift+up", "K", "pgup"), key.WithHelp("⇧↑/K/PgUp", "raise ×5")),
+		BigDown:  key.NewBinding(key.WithKeys("shift+down", "J", "pgdown"), key.WithHelp("⇧↓/J/PgDn", "lower ×5")),
+		Prev:     key.NewBinding(key.WithKeys("left", "h", "shift+tab"), key.WithHelp("←/h/⇧Tab", "previous lever")),
+		Next:     key.NewBinding(key.WithKeys("right", "l", "tab"), key.WithHelp("→/l/Tab", "next lever")),
+		Pin:      key.NewBinding(key.WithKeys("b"), key.WithHelp("b", "pin as baseline")),
+		Revert:   key.NewBinding(key.WithKeys("r"), key.WithHelp("r", "back to baseline")),
+		Undo:     key.NewBinding(key.WithKeys("u"), key.WithHelp("u", "undo")),
+		Redo:     key.NewBinding(key.WithKeys("ctrl+r", "U"), key.WithHelp("^R/U", "redo")),
+		Fit:      key.NewBinding(key.WithKeys("z"), key.WithHelp("z", "refit axes")),
+		Preset:   key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "preset")),
+		Save:     key.NewBinding(key.WithKeys("s"), key.WithHelp("s", "save")),
+		Open:     key.NewBinding(key.WithKeys("o"), key.WithHelp("o", "open")),
+		NextView: key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next view")),
+		GoView:   key.NewBinding(key.WithKeys("1", "2", "3", "4", "5", "6", "7", "8", "9"), key.WithHelp("1…9", "go to view")),
+		Help:     key.NewBinding(key.WithKeys("?"), key.WithHelp("?", "help")),
+		Quit:     key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q/^C", "quit")),
+		Confirm:  key.NewBinding(key.WithKeys("enter"), key.WithHelp("Enter", "confirm")),
+		Cancel:   key.NewBinding(key.WithKeys("esc"), key.WithHelp("Esc", "cancel/close")),
+	}
+}
+
+// ShortHelp is the key line at the foot of the screen.
+func (k KeyMap) ShortHelp() []key.Binding {
+	return []key.Binding{k.Up, k.Down, k.Next, k.Pin, k.Revert, k.Undo, k.Preset, k.Save, k.Open, k.NextView, k.Help, k.Quit}
+}
+
+// FullHelp is the help overlay, one column per group.
+func (k KeyMap) FullHelp() [][]key.Binding {
+	return [][]key.Binding{
+		{k.Up, k.Down, k.BigUp, k.BigDown, k.Prev, k.Next},
+		{k.Pin, k.Revert, k.Undo, k.Redo, k.Fit},
+		{k.Preset, k.Save, k.Open, k.NextView, k.GoView},
+		{k.Help, k.Cancel, k.Confirm, k.Quit},
+	}
+}

@@ -1,0 +1,94 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/x/ansi"
+
+	"pvcouple/model"
+)
+
+// leverPanel lists the levers with their value, unit and baseline value; the
+// selected one is marked with ▸. In a column it has one lever a line; as a
+// strip below the main area it has two columns of short names.
+type leverPanel struct {
+	s     *Styles
+	w, h  int
+	strip bool
+}
+
+func newLeverPanel(s *Styles) *leverPanel { return &leverPanel{s: s} }
+
+// leverColumnW is the width a column needs for the levers' full names;
+// a narrower column uses the short names.
+const leverColumnW = 48
+
+// leverColumnLines is the height of the panel in a column.
+func leverColumnLines() int { return 1 + len(model.Levers) }
+
+// leverStripLines is the height of the panel as a two-column strip.
+func leverStripLines() int { return 1 + (len(model.Levers)+1)/2 }
+
+// SetSize sets the panel's size and whether it is a strip.
+func (p *leverPanel) SetSize(w, h int, strip bool) { p.w, p.h, p.strip = w, h, strip }
+
+// Render draws the panel: exactly h lines of width w.
+func (p *leverPanel) Render(st *state, sel int) string {
+	s := p.s
+	var lines []string
+	base := st.target
+	if st.base != nil {
+		base = st.base.Params
+	}
+	if p.strip {
+		l := model.Levers[sel]
+		head := fmt.Sprintf(" Levers · %s: %s", l.Name, l.Spec().Meaning)
+		lines = append(lines, s.Heading.Render(padRight(ansi.Truncate(head, p.w, "…"), p.w)))
+		half := (len(model.Levers) + 1) / 2
+		cw := p.w / 2
+		for r := 0; r < half; r++ {
+			line := p.cell(r, st.target, base, sel, cw, true)
+			if r+half < len(model.Levers) {
+				line += p.cell(r+half, st.target, base, sel, p.w-cw, true)
+			}
+			lines = append(lines, padRight(line, p.w))
+		}
+	} else {
+		short := p.w < leverColumnW
+		head := fmt.Sprintf(" %-20s%7s  %-10s%7s", "Levers", "now", "unit", "base")
+		if short {
+			head = fmt.Sprintf(" %-8s%6s %-9s%7s", "Levers", "now", "unit", "(base)")
+		}
+		lines = append(lines, s.Heading.Render(padRight(head, p.w)))
+		for i := range model.Levers {
+			lines = append(lines, p.cell(i, st.target, base, sel, p.w, short))
+		}
+	}
+	for len(lines) < p.h {
+		lines = append(lines, strings.Repeat(" ", p.w))
+	}
+	return strings.Join(lines[:p.h], "\n")
+}
+
+// cell renders one lever in width w: mark, name, value, unit, baseline
+// (in brackets when short).
+func (p *leverPanel) cell(i int, now, base model.Params, sel, w int, short bool) string {
+	s := p.s
+	l := model.Levers[i]
+	spec := l.Spec()
+	v, b := spec.Get(now), spec.Get(base)
+	var name, rest string
+	if short {
+		name = fmt.Sprintf("%-8s", l.Short)
+		rest = fmt.Sprintf("%6s %-9s", l.Format(v), spec.Unit) + s.Dim.Render(fmt.Sprintf("%7s", "("+l.Format(b)+")"))
+	} else {
+		name = fmt.Sprintf("%-20s", l.Name)
+		rest = fmt.Sprintf("%7s  %-10s", l.Format(v), spec.Unit) + s.Dim.Render(fmt.Sprintf("%7s", l.Format(b)))
+	}
+	mark := "  "
+	if i == sel {
+		mark, name = s.Selected.Render("▸ "+name), ""
+	}
+	return padRight(mark+name+rest, w)
+}

@@ -1,0 +1,122 @@
+package ui
+
+import (
+	"fmt"
+
+	"github.com/charmbracelet/bubbles/help"
+	"github.com/charmbracelet/bubbles/textinput"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"pvcouple/model"
+	"pvcouple/presets"
+)
+
+// mode is what the keys act on.
+type mode int
+
+const (
+	modeMain    mode = iota // the levers
+	modeHelp                // the help overlay
+	modePicker              // the preset picker
+	modePrompt              // a file path prompt (save or open)
+	modeConfirm             // overwrite an existing file?
+)
+
+// Model is the explorer's root Bubble Tea model.
+type Model struct {
+	keys   KeyMap
+	styles *Styles
+	help   help.Model
+
+	w, h int // window size; 0 until the first WindowSizeMsg
+	lay  layout
+
+	st       state
+	views    []view
+	cur      int // index of the view on screen
+	readouts *readoutPanel
+	levers   *leverPanel
+	sel      int // index of the selected lever in model.Levers
+
+	solver     *model.Solver // the worker's: used by one solve at a time
+	syncSolver *model.Solver // the UI goroutine's, for loading scenarios
+	inflight   bool          // a solve is running
+	gen        int           // generation of the levers' setting
+	floor      int           // results of generations below this are stale
+	pending    string        // status of the nudge awaiting its solve
+
+	hist history
+
+	status    string
+	statusErr bool
+
+	mode     mode
+	picker   picker
+	prompt   textinput.Model
+	saving   bool   // the prompt saves (else it opens)
+	lastPath string // the path last saved or opened
+	confirm  string // the path to overwrite when confirmed
+}
+
+// New returns the explorer on scenario sc, solved to steady state (the
+// baseline is the scenario's, or its parameters). origin says where the
+// scenario came from, e.g. "preset normal" or a file name.
+func New(sc *presets.Scenario, origin string, styles *Styles) (*Model, error) {
+	m := &Model{
+		keys:       DefaultKeyMap(),
+		styles:     styles,
+		solver:     model.NewSolver(),
+		syncSolver: model.NewSolver(),
+		views:      newViews(styles),
+		readouts:   newReadoutPanel(styles),
+		levers:     newLeverPanel(styles),
+	}
+	m.help = newHelp(styles)
+	m.prompt = newPrompt(styles)
+	if err := m.load(sc, origin); err != nil {
+		return nil, err
+	}
+	m.hist = history{}
+	m.setStatus(fmt.Sprintf("Opened %s. ↑/↓ nudge the selected lever, ←/→ choose another, ? for every key.", origin))
+	return m, nil
+}
+
+// Init implements tea.Model.
+func (m *Model) Init() tea.Cmd { return nil }
+
+// load solves scenario sc and its baseline and, when both settle, puts them
+// on screen as the levers and the baseline; on failure nothing changes.
+func (m *Model) load(sc *presets.Scenario, origin string) error {
+	cur, err := m.syncSolver.SteadyState(sc.Params, nil)
+	if err != nil {
+		return fmt.Errorf("%s: %w", origin, err)
+	}
+	base := cur
+	if sc.Baseline != nil && *sc.Baseline != sc.Params {
+		if base, err = m.syncSolver.SteadyState(*sc.Baseline, nil); err != nil {
+			return fmt.Errorf("%s: baseline: %w", origin, err)
+		}
+	}
+	if m.st.shown != nil {
+		m.hist.push(m.snapshot())
+	}
+	m.st = state{name: sc.Name, origin: origin, target: sc.Params, shown: cur, base: base}
+	m.gen++
+	m.floor = m.gen
+	m.pending = ""
+	for _, v := range m.views {
+		v.Refit()
+	}
+	return nil
+}
+
+// snapshot is the state undo returns to.
+func (m *Model) snapshot() snapshot {
+	return snapshot{name: m.st.name, origin: m.st.origin, target: m.st.target, base: m.st.base}
+}
+
+// setStatus says what just happened.
+func (m *Model) setStatus(s string) { m.status, m.statusErr = s, false }
+
+// setError says what went wrong; the screen is otherwise unchanged.
+func (m *Model) setError(s string) { m.status, m.statusErr = s, true }

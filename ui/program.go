@@ -1,0 +1,49 @@
+package ui
+
+import (
+	"fmt"
+	"io"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/muesli/termenv"
+)
+
+// ColorModes are the values of the --color flag.
+var ColorModes = []string{"auto", "always", "never"}
+
+// Profile returns the colour profile for a --color mode on output w: "auto"
+// detects it from the terminal and the environment (NO_COLOR turns colour
+// off), "always" uses colour even where auto would not (at least 16
+// colours), "never" uses none.
+func Profile(mode string, w io.Writer) (termenv.Profile, error) {
+	switch mode {
+	case "auto":
+		return termenv.NewOutput(w).EnvColorProfile(), nil
+	case "always":
+		p := termenv.NewOutput(w, termenv.WithTTY(true)).ColorProfile()
+		if p == termenv.Ascii {
+			p = termenv.ANSI
+		}
+		return p, nil
+	case "never":
+		return termenv.Ascii, nil
+	}
+	return termenv.Ascii, fmt.Errorf("--color %q is not one of: auto, always, never", mode)
+}
+
+// NewRenderer returns a lipgloss renderer on w with colour profile p. The
+// background is declared dark rather than asked for: the styles use no
+// adaptive colours, and a background query can stall a remote terminal.
+func NewRenderer(w io.Writer, p termenv.Profile) *lipgloss.Renderer {
+	r := lipgloss.NewRenderer(w)
+	r.SetColorProfile(p)
+	r.SetHasDarkBackground(true)
+	return r
+}
+
+// NewProgram returns the Bubble Tea program of the explorer m: full screen,
+// no mouse. Extra options (input, output) follow the defaults.
+func NewProgram(m *Model, opts ...tea.ProgramOption) *tea.Program {
+	return tea.NewProgram(m, append([]tea.ProgramOption{tea.WithAltScreen()}, opts...)...)
+}

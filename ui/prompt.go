@@ -1,0 +1,157 @@
+package ui
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/cursor"
+	"github.com/charmbracelet/bubbles/key"
+	"github.com/charmbracelet/bubbles/textinput"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"pvcouple/presets"
+)
+
+// newPrompt returns the path prompt, styled from s and with a steady cursor
+// (a blinking one would redraw the line twice a second over the link).
+func newPrompt(s *Styles) textinput.Model {
+	t := textinput.New()
+	t.PromptStyle = s.Prompt
+	t.TextStyle = s.Status
+	t.PlaceholderStyle = s.Dim
+	t.CompletionStyle = s.Dim
+	t.Cursor.Style = s.Renderer().NewStyle().Reverse(true)
+	t.Cursor.TextStyle = s.Status
+	t.Cursor.SetMode(cursor.CursorStatic)
+	t.CharLimit = 4096
+	return t
+}
+
+// openPrompt asks for a path to save to (save) or open from.
+func (m *Model) openPrompt(save bool) tea.Cmd {
+	m.saving = save
+	m.prompt.Reset()
+	if save {
+		m.prompt.Prompt = "Save scenario to: "
+		v := m.lastPath
+		if v == "" {
+			v = m.st.name + ".yaml"
+		}
+		m.prompt.SetValue(v)
+	} else {
+		m.prompt.Prompt = "Open scenario: "
+		m.prompt.SetValue(m.lastPath)
+	}
+	m.prompt.CursorEnd()
+	m.mode = modePrompt
+	return m.prompt.Focus()
+}
+
+// promptKey edits the path; Enter saves or opens, Esc cancels.
+func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
+	switch {
+	case msg.String() == "ctrl+c":
+		return tea.Quit
+	case key.Matches(msg, m.keys.Cancel):
+		m.mode = modeMain
+		m.prompt.Blur()
+		m.setStatus("Cancelled.")
+		return nil
+	case key.Matches(msg, m.keys.Confirm):
+		m.mode = modeMain
+		m.prompt.Blur()
+		path := expandHome(strings.TrimSpace(m.prompt.Value()))
+		if path == "" {
+			m.setError("No path given: nothing saved or opened.")
+			return nil
+		}
+		if m.saving {
+			m.save(path, false)
+		} else {
+			m.open(path)
+		}
+		return nil
+	}
+	var cmd tea.Cmd
+	m.prompt, cmd = m.prompt.Update(msg)
+	return cmd
+}
+
+// confirmKey answers "overwrite?": y overwrites, anything else keeps the file.
+func (m *Model) confirmKey(msg tea.KeyMsg) tea.Cmd {
+	m.mode = modeMain
+	switch msg.String() {
+	case "ctrl+c":
+		return tea.Quit
+	case "y", "Y":
+		m.save(m.confirm, true)
+	default:
+		m.setStatus("Kept " + m.confirm + " as it was: nothing saved.")
+	}
+	return nil
+}
+
+// save writes the levers and the baseline to path as a scenario. An
+// existing file is replaced only after the user confirms.
+func (m *Model) save(path string, force bool) {
+	sc := &presets.Scenario{
+		Version:     presets.SchemaVersion,
+		Name:        strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)),
+		Description: "Saved from pvcouple explore, started from " + m.st.origin,
+		Params:      m.st.target,
+	}
+	if m.st.base != nil {
+		b := m.st.base.Params
+		sc.Baseline = &b
+	}
+	if dir := filepath.Dir(path); !isDir(dir) {
+		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
+		return
+	}
+	err := presets.SaveScenario(path, sc, force)
+	switch {
+	case errors.Is(err, presets.ErrExists):
+		m.confirm = path
+		m.mode = modeConfirm
+		m.setError(path + " exists. Overwrite it? y overwrites, any other key keeps it.")
+	case err != nil:
+		m.setError("Not saved: " + err.Error())
+	default:
+		m.lastPath = path
+		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", path))
+	}
+}
+
+// open loads a scenario file; a file that fails to load or solve changes
+// nothing on screen.
+func (m *Model) open(path string) {
+	sc, err := presets.LoadScenario(path)
+	if err == nil {
+		err = m.load(sc, path)
+	}
+	if err != nil {
+		m.setError("Not opened: " + err.Error())
+		return
+	}
+	m.lastPath = path
+	m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, sc.Name))
+}
+
+// expandHome replaces a leading ~/ by the home directory.
+func expandHome(p string) string {
+	if p == "~" || strings.HasPrefix(p, "~/") {
+		if h, err := os.UserHomeDir(); err == nil {
+			return filepath.Join(h, strings.TrimPrefix(p, "~"))
+		}
+	}
+	return p
+}
+
+// isDir reports whether path is an existing directory.
+func isDir(path string) bool {
+	fi, err := os.Stat(path)
+	return err == nil && fi.IsDir()
+}

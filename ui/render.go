@@ -1,0 +1,143 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
+)
+
+// View implements tea.Model: the whole screen, one line per terminal row.
+// Parts that did not change render byte-identical to the last frame, so
+// Bubble Tea's renderer skips their lines.
+func (m *Model) View() string {
+	if m.w == 0 {
+		return ""
+	}
+	if m.tooSmall() {
+		msg := fmt.Sprintf("Enlarge the window: pvcouple needs %d×%d, this one is %d×%d.\nq quits.",
+			minWidth, minHeight, m.w, m.h)
+		return trimLines(m.styles.Renderer().Place(m.w, m.h, lipgloss.Center, lipgloss.Center, msg))
+	}
+	var body string
+	switch m.mode {
+	case modeHelp:
+		body = m.overlay(m.renderHelp())
+	case modePicker:
+		body = m.overlay(m.renderPicker())
+	default:
+		body = m.renderBody()
+	}
+	return trimLines(m.topBar() + "\n" + body + "\n" + m.footer())
+}
+
+// footer is the status line and the key line. A status too long for one
+// line (an error naming a file, a key and a range) takes the key line too.
+func (m *Model) footer() string {
+	if m.mode != modePrompt && ansi.StringWidth(m.status)+3 > m.w {
+		st := m.styles.Status
+		prefix := " "
+		if m.statusErr {
+			st, prefix = m.styles.Error, " ✗ "
+		}
+		wrapped := ansi.Wrap(prefix+m.status, m.w, " /")
+		lines := strings.SplitN(wrapped, "\n", 3)
+		if len(lines) == 3 {
+			lines = lines[:2]
+			lines[1] = ansi.Truncate(lines[1], m.w-1, "") + "…"
+		}
+		for len(lines) < 2 {
+			lines = append(lines, "")
+		}
+		return st.Render(padRight(lines[0], m.w)) + "\n" + st.Render(padRight("   "+strings.TrimLeft(lines[1], " "), m.w))
+	}
+	return m.statusLine() + "\n" + m.keyLine()
+}
+
+// trimLines drops the spaces at the end of every line: Bubble Tea's
+// renderer clears the rest of a short line with one escape sequence, which
+// is cheaper over a slow link than the spaces.
+func trimLines(s string) string {
+	lines := strings.Split(s, "\n")
+	for i, l := range lines {
+		lines[i] = strings.TrimRight(l, " ")
+	}
+	return strings.Join(lines, "\n")
+}
+
+// renderBody is the main view with the readout and lever panels.
+func (m *Model) renderBody() string {
+	l := m.lay
+	mainLines := strings.Split(m.views[m.cur].Render(&m.st), "\n")
+	side := m.readouts.Render(&m.st)
+	if !l.strip {
+		side += "\n" + strings.Repeat(" ", l.sideW) + "\n" + m.levers.Render(&m.st, m.sel)
+	}
+	sideLines := strings.Split(side, "\n")
+	var b strings.Builder
+	for i := 0; i < l.mainH; i++ {
+		if i > 0 {
+			b.WriteByte('\n')
+		}
+		b.WriteString(lineAt(mainLines, i, l.mainW))
+		b.WriteByte(' ')
+		b.WriteString(lineAt(sideLines, i, l.sideW))
+	}
+	if l.strip {
+		b.WriteByte('\n')
+		b.WriteString(m.levers.Render(&m.st, m.sel))
+	}
+	return b.String()
+}
+
+// lineAt is line i of lines, or blank, padded to width w.
+func lineAt(lines []string, i, w int) string {
+	if i < len(lines) {
+		return padRight(lines[i], w)
+	}
+	return strings.Repeat(" ", w)
+}
+
+// overlay centres a box in the body's area.
+func (m *Model) overlay(box string) string {
+	return m.styles.Renderer().Place(m.w, m.h-3, lipgloss.Center, lipgloss.Center, box)
+}
+
+// topBar names the program, the views (the one on screen highlighted and
+// bracketed) and the scenario.
+func (m *Model) topBar() string {
+	s := m.styles
+	left := s.Title.Render(" pvcouple ")
+	for i, v := range m.views {
+		name := fmt.Sprintf(" %d %s ", i+1, v.Name())
+		if i == m.cur {
+			left += s.ActiveTab.Render("[" + strings.TrimSpace(name) + "]")
+		} else {
+			left += s.Tab.Render(name)
+		}
+	}
+	right := s.Dim.Render("scenario ") + m.st.name + " "
+	gap := m.w - lipgloss.Width(left) - lipgloss.Width(right)
+	if gap < 1 {
+		return padRight(left, m.w)
+	}
+	return left + strings.Repeat(" ", gap) + right
+}
+
+// statusLine says what just happened, or holds the path prompt.
+func (m *Model) statusLine() string {
+	s := m.styles
+	if m.mode == modePrompt {
+		return padRight(" "+m.prompt.View()+s.Dim.Render("   Enter "+map[bool]string{true: "saves", false: "opens"}[m.saving]+" · Esc cancels"), m.w)
+	}
+	if m.statusErr {
+		return padRight(s.Error.Render(" ✗ "+m.status), m.w)
+	}
+	return padRight(s.Status.Render(" "+m.status), m.w)
+}
+
+// keyLine is the short help.
+func (m *Model) keyLine() string {
+	return padRight(" "+m.help.ShortHelpView(m.keys.ShortHelp()), m.w)
+}

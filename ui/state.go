@@ -1,0 +1,17 @@
+package ui
+
+import "pvcouple/model"
+
+// state is what the explorer shows: the scenario, the levers' setting, the
+// loop on screen and the baseline it is compared with. Views and panels read
+// it and never change it.
+type state struct {
+	name   string        // scenario name
+	origin string        // where it came from: "preset normal" or a file path
+	target model.Params  // the levers' setting; solved, or being solved
+	shown  *model.Steady // the last settled loop; shown.Params may lag target
+	base   *model.Steady // the baseline loop
+}
+
+// settled reports whether the loop on screen belongs to the levers' setting.
+func (s *state) settled() bool { return s.shown != nil && s.shown.Params == s.target }

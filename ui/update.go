@@ -1,0 +1,232 @@
+package ui
+
+import (
+	"errors"
+	"fmt"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"pvcouple/model"
+)
+
+// Update implements tea.Model.
+func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	switch msg := msg.(type) {
+	case tea.WindowSizeMsg:
+		m.resize(msg.Width, msg.Height)
+		return m, nil
+	case solvedMsg:
+		return m, m.solved(msg)
+	case tea.KeyMsg:
+		// Esc and a key typed quickly after it (or sent together over a
+		// slow link) arrive as Alt and the key: take them as both.
+		if msg.Alt && msg.Type == tea.KeyRunes {
+			c1 := m.key(tea.KeyMsg{Type: tea.KeyEsc})
+			msg.Alt = false
+			_, c2 := m.Update(msg)
+			return m, tea.Batch(c1, c2)
+		}
+		// Keys typed faster than they are read arrive as one message with
+		// several runes ("kkk" from a held-down k); outside the path prompt
+		// each is a key of its own.
+		if msg.Type == tea.KeyRunes && len(msg.Runes) > 1 && !msg.Paste && m.mode != modePrompt {
+			var cmds []tea.Cmd
+			for _, r := range msg.Runes {
+				cmds = append(cmds, m.key(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}}))
+			}
+			return m, tea.Batch(cmds...)
+		}
+		return m, m.key(msg)
+	}
+	return m, m.views[m.cur].Update(msg, &m.st)
+}
+
+// key handles a key press in the current mode.
+func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
+	switch m.mode {
+	case modeHelp:
+		return m.helpKey(msg)
+	case modePicker:
+		return m.pickerKey(msg)
+	case modePrompt:
+		return m.promptKey(msg)
+	case modeConfirm:
+		return m.confirmKey(msg)
+	}
+	k := m.keys
+	switch {
+	case key.Matches(msg, k.Quit):
+		return tea.Quit
+	case key.Matches(msg, k.Help):
+		m.mode = modeHelp
+	case m.tooSmall():
+		// Only quitting and help work until the window is large enough.
+	case key.Matches(msg, k.Up):
+		return m.nudge(1, false)
+	case key.Matches(msg, k.Down):
+		return m.nudge(-1, false)
+	case key.Matches(msg, k.BigUp):
+		return m.nudge(1, true)
+	case key.Matches(msg, k.BigDown):
+		return m.nudge(-1, true)
+	case key.Matches(msg, k.Next):
+		m.selectLever(m.sel + 1)
+	case key.Matches(msg, k.Prev):
+		m.selectLever(m.sel - 1)
+	case key.Matches(msg, k.Pin):
+		m.pin()
+	case key.Matches(msg, k.Revert):
+		m.revert()
+	case key.Matches(msg, k.Undo):
+		return m.undo()
+	case key.Matches(msg, k.Redo):
+		return m.redo()
+	case key.Matches(msg, k.Fit):
+		m.views[m.cur].Refit()
+		m.setStatus("Axes fitted to the loops again.")
+	case key.Matches(msg, k.Preset):
+		m.openPicker()
+	case key.Matches(msg, k.Save):
+		return m.openPrompt(true)
+	case key.Matches(msg, k.Open):
+		return m.openPrompt(false)
+	case key.Matches(msg, k.NextView):
+		m.showView(m.cur + 1)
+	case key.Matches(msg, k.GoView):
+		if i := int(msg.Runes[0] - '1'); i < len(m.views) {
+			m.showView(i)
+		} else {
+			m.setError(fmt.Sprintf("There is no view %c: views 1 to %d.", msg.Runes[0], len(m.views)))
+		}
+	default:
+		return m.views[m.cur].Update(msg, &m.st)
+	}
+	return nil
+}
+
+// selectLever selects lever i, wrapping around.
+func (m *Model) selectLever(i int) {
+	n := len(model.Levers)
+	m.sel = (i%n + n) % n
+	l := model.Levers[m.sel]
+	s := l.Spec()
+	m.setStatus(fmt.Sprintf("%s: %s, %s (%s).", l.Name, s.Meaning, l.Format(s.Get(m.st.target))+" "+s.Unit, s.RangeText()))
+}
+
+// showView puts view i on screen, wrapping around.
+func (m *Model) showView(i int) {
+	m.cur = (i%len(m.views) + len(m.views)) % len(m.views)
+	m.setStatus("View: " + m.views[m.cur].Name() + ".")
+}
+
+// nudge moves the selected lever one step and asks for a solve. A step past
+// the lever's range stops at the limit; a setting the model refuses (say, a
+// ventricle that would not fill) is not taken.
+func (m *Model) nudge(dir int, big bool) tea.Cmd {
+	l := model.Levers[m.sel]
+	s := l.Spec()
+	old := s.Get(m.st.target)
+	v, limErr := l.Nudge(old, dir, big)
+	if v == old {
+		m.setError(limErr.Error() + ".")
+		return nil
+	}
+	p := m.st.target
+	s.Set(&p, v)
+	if err := p.Validate(); err != nil {
+		var pe *model.ParamError
+		if errors.As(err, &pe) {
+			m.setError(fmt.Sprintf("%s stays at %s %s: %s.", l.Name, l.Format(old), s.Unit, pe.Reason))
+		} else {
+			m.setError(fmt.Sprintf("%s stays at %s %s: %v.", l.Name, l.Format(old), s.Unit, err))
+		}
+		return nil
+	}
+	m.hist.push(m.snapshot())
+	m.st.target = p
+	m.gen++
+	m.pending = fmt.Sprintf("%s %s → %s %s", l.Name, l.Format(old), l.Format(v), s.Unit)
+	if limErr != nil {
+		m.setError(limErr.Error() + ".")
+		m.pending = ""
+	} else {
+		m.setStatus(m.pending)
+	}
+	return m.requestSolve()
+}
+
+// pin makes the loop on screen the baseline.
+func (m *Model) pin() {
+	if m.st.base == m.st.shown {
+		m.setStatus("The loop on screen is already the baseline.")
+		return
+	}
+	m.hist.push(m.snapshot())
+	m.st.base = m.st.shown
+	m.setStatus("Pinned the loop on screen as the baseline: Δ and % now count from here.")
+}
+
+// revert puts the levers back to the baseline.
+func (m *Model) revert() {
+	if m.st.shown == m.st.base && m.st.settled() {
+		m.setStatus("Already at the baseline.")
+		return
+	}
+	m.hist.push(m.snapshot())
+	m.st.target, m.st.shown = m.st.base.Params, m.st.base
+	m.gen++
+	m.floor, m.pending = m.gen, ""
+	m.setStatus("Back to the baseline.")
+}
+
+// restore puts a snapshot on screen and asks for its solve.
+func (m *Model) restore(s snapshot) tea.Cmd {
+	if s.name != m.st.name || s.origin != m.st.origin {
+		for _, v := range m.views {
+			v.Refit() // another scenario: fit its loops afresh
+		}
+	}
+	m.st.name, m.st.origin, m.st.target, m.st.base = s.name, s.origin, s.target, s.base
+	m.gen++
+	m.pending = ""
+	if s.target == s.base.Params {
+		m.st.shown = s.base
+		m.floor = m.gen
+	}
+	return m.requestSolve()
+}
+
+// undo steps back one change of the levers or the baseline.
+func (m *Model) undo() tea.Cmd {
+	s, ok := m.hist.back(m.snapshot())
+	if !ok {
+		m.setError("Nothing to undo.")
+		return nil
+	}
+	m.setStatus(fmt.Sprintf("Undone (%d more to undo, %d to redo).", len(m.hist.undo), len(m.hist.redo)))
+	return m.restore(s)
+}
+
+// redo steps forward again after an undo.
+func (m *Model) redo() tea.Cmd {
+	s, ok := m.hist.forward(m.snapshot())
+	if !ok {
+		m.setError("Nothing to redo.")
+		return nil
+	}
+	m.setStatus(fmt.Sprintf("Redone (%d more to redo).", len(m.hist.redo)))
+	return m.restore(s)
+}
+
+// helpKey handles keys while the help is open: any of ?, Esc, q closes it;
+// Ctrl-C quits.
+func (m *Model) helpKey(msg tea.KeyMsg) tea.Cmd {
+	if msg.String() == "ctrl+c" {
+		return tea.Quit
+	}
+	if key.Matches(msg, m.keys.Help, m.keys.Cancel, m.keys.Quit, m.keys.Confirm) {
+		m.mode = modeMain
+	}
+	return nil
+}
