@@ -11,4 +11,5 @@ require (
 require (
 	github.com/google/renameio/v2 v2.0.2 // indirect
 	golang.org/x/sys v0.50.0 // indirect
+	golang.org/x/tools v0.30.0 // indirect
 )

@@ -43,6 +43,10 @@ type BeatSamples struct {
 	DPdt []float64
 	// Pao is proximal aortic pressure, mmHg. If nil, MAP, SBP and DBP are NaN.
 	Pao []float64
+	// EDAtStart marks a beat cut at end-diastole, as recorded beats are: its
+	// first sample is end-diastole. Otherwise end-diastole is the sample of
+	// largest volume, which noise would move along the isovolumic plateau.
+	EDAtStart bool
 }
 
 // Known is what is known of the heart and its load beyond the samples: exact
@@ -76,7 +80,8 @@ const tauWindowAboveEDP = 5
 
 // Measure takes the measurements of one beat from its samples.
 //
-// End-diastole is the sample of largest volume. End-systole is the sample of
+// End-diastole is the sample of largest volume (the first sample when
+// b.EDAtStart is set). End-systole is the sample of
 // maximal P/(V − V0) (SCIENCE.md §6), among samples with V − V0 above 2 % of
 // EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
 // maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
@@ -108,7 +113,7 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	// End-diastole: largest volume.
 	ied := 0
 	for i := range b.V {
-		if b.V[i] > b.V[ied] {
+		if !b.EDAtStart && b.V[i] > b.V[ied] {
 			ied = i
 		}
 	}
