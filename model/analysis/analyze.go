@@ -1,7 +1,6 @@
 package analysis
 
 import (
-	"errors"
 	"fmt"
 	"math"
 
@@ -277,5 +276,21 @@ func (a *Analysis) findSteady() {
 	}
 }
 
-// ErrNotSteady is returned for a fit when a recording has too few steady beats.
-var ErrNotSteady = errors.New("too few steady beats")
+// SteadyMedians returns, for every key of model.MetricSpecs, the median over
+// the steady beats (NaN when there are none or the metric is unknown).
+func (a *Analysis) SteadyMedians() map[string]float64 {
+	out := make(map[string]float64, len(model.MetricSpecs))
+	for _, s := range model.MetricSpecs {
+		var x []float64
+		for _, b := range a.Steady {
+			if v := s.Get(&b.Metrics); !math.IsNaN(v) {
+				x = append(x, v)
+			}
+		}
+		out[s.Key] = math.NaN()
+		if len(x) > 0 {
+			out[s.Key] = median(x)
+		}
+	}
+	return out
+}

@@ -53,19 +53,6 @@ func chenTiming(b *Beat) (pd, tnd float64, err error) {
 	return pd, tnd, nil
 }
 
-// interpAt interpolates y linearly at time x within t.
-func interpAt(t, y []float64, x float64) float64 {
-	i, _ := slices.BinarySearch(t, x)
-	if i <= 0 {
-		return y[0]
-	}
-	if i >= len(t) {
-		return y[len(y)-1]
-	}
-	f := (x - t[i-1]) / (t[i] - t[i-1])
-	return y[i-1] + f*(y[i]-y[i-1])
-}
-
 // singleBeat computes the single-beat estimates from steady, kept beats.
 func singleBeat(beats []*Beat) *SingleBeat {
 	var ps, pd, sv, ef, tnd, edv, edp []float64
