@@ -10,10 +10,12 @@ import (
 const (
 	noisyP      = 3    // mmHg SD
 	noisyVFrac  = 0.05 // SD as a fraction of SV
-	driftP      = 3    // mmHg of baseline change across the steady beats
-	driftVFrac  = 0.05 // EDV change across the steady beats, fraction
-	driftSpan   = 5    // s: shorter steady stretches are not judged for drift
-	minDriftBts = 5    // steady beats needed to judge drift
+	driftP      = 2    // mmHg of baseline change across the steady beats
+	driftVFrac  = 0.03 // volume change across the steady beats, fraction of EDV
+	driftEes    = 0.02 // drift that would move the ESPVR slope by this fraction
+	driftSpan   = 3    // s: shorter steady stretches are not judged for drift
+	minDriftBts = 4    // steady beats needed to judge drift
+	driftSig    = 2.5  // a trend counts when its slope exceeds this many standard errors
 )
 
 // noise combines the segments' noise estimates.
@@ -47,34 +49,7 @@ func (a *Analysis) checkQuality() {
 			a.warnf("volume is noisy (noise SD about %.2g mL, %.0f %% of SV): EDV, ESV and the ESPVR are uncertain", a.NoiseV, 100*a.NoiseV/msv)
 		}
 	}
-	// Drift: across steady beats, a trend in the lowest diastolic pressure
-	// with EDV unchanged is a pressure baseline drift; a trend in EDV and ESV
-	// together with pressures unchanged looks like volume drift.
-	st := a.Steady
-	if len(st) >= minDriftBts && st[len(st)-1].Start-st[0].Start >= driftSpan {
-		n := len(st)
-		ts, pmin, edv, esv, esp := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
-		for i, b := range st {
-			ts[i] = b.Start
-			pmin[i] = minOf(b.Samples.P)
-			edv[i], esv[i], esp[i] = b.Metrics.EDV, b.Metrics.ESV, b.Metrics.ESP
-		}
-		span := ts[n-1] - ts[0]
-		change := func(y []float64) float64 {
-			_, beta := stat.LinearRegression(ts, y, nil, false)
-			return beta * span
-		}
-		dp, dedv, desv, desp := change(pmin), change(edv), change(esv), change(esp)
-		medEDV := median(append([]float64(nil), edv...))
-		if math.Abs(dp) > driftP && math.Abs(dedv) < driftVFrac*medEDV {
-			a.warnf("the pressure baseline drifts by about %+.2g mmHg over %.0f s of steady beats while EDV holds: pressures (EDP above all) carry the drift",
-				dp, span)
-		}
-		if math.Abs(dedv) > driftVFrac*medEDV && math.Abs(desv-dedv) < 0.5*math.Abs(dedv) && math.Abs(desp) < driftP {
-			a.warnf("EDV and ESV drift together by about %+.2g mL over %.0f s of steady beats while pressures hold: volume drift (conductance) is likely; volumes carry it",
-				dedv, span)
-		}
-	}
+	a.checkDrift()
 	// A volume offset shows as V0 far from the usual range or ESV below V0.
 	if e := a.ESPVR; e != nil {
 		if e.V0 < -50 {
@@ -98,4 +73,75 @@ func minOf(x []float64) float64 {
 		m = math.Min(m, v)
 	}
 	return m
+}
+
+// checkDrift looks for baseline drift in the steady beats, where nothing
+// should change: a trend in the lowest pressure of each beat is pressure
+// drift; a trend in the mean of EDV and ESV is volume drift. A significant
+// trend is reported with its effect: over a preload run, drift of ΔV mL (ΔP
+// mmHg) against end-systolic volumes spanning R_V (pressures spanning R_P)
+// moves the ESPVR slope by about ΔV/R_V (ΔP/R_P).
+func (a *Analysis) checkDrift() {
+	st := a.Steady
+	if len(st) < minDriftBts || st[len(st)-1].Start-st[0].Start < driftSpan {
+		return
+	}
+	n := len(st)
+	ts, pmin, vmid := make([]float64, n), make([]float64, n), make([]float64, n)
+	for i, b := range st {
+		ts[i] = b.Start
+		pmin[i] = minOf(b.Samples.P)
+		vmid[i] = 0.5 * (b.Metrics.EDV + b.Metrics.ESV)
+	}
+	span := ts[n-1] - ts[0]
+	sp, okP := trend(ts, pmin)
+	sv, okV := trend(ts, vmid)
+	medEDV := median(append([]float64(nil), vmid...))
+	if run := a.PreloadRun; len(run) > 0 {
+		dur := run[len(run)-1].End - run[0].Start
+		var esv, esp []float64
+		for _, b := range run {
+			esv = append(esv, b.Metrics.ESV)
+			esp = append(esp, b.Metrics.ESP)
+		}
+		rv, rp := spread(esv), spread(esp)
+		if okV && rv > 0 && math.Abs(sv*dur/rv) > driftEes {
+			a.warnf("volume drifts about %+.2g mL/s in the steady beats (conductance drift?): over the %.0f-s preload run that is %.2g mL against end-systolic volumes spanning %.3g mL, moving the ESPVR slope by about %.0f %%",
+				sv, dur, math.Abs(sv*dur), rv, 100*math.Abs(sv*dur/rv))
+		}
+		if okP && rp > 0 && math.Abs(sp*dur/rp) > driftEes {
+			a.warnf("the pressure baseline drifts about %+.2g mmHg/s in the steady beats: over the %.0f-s preload run that is %.2g mmHg against end-systolic pressures spanning %.3g mmHg, moving the ESPVR slope by about %.0f %%",
+				sp, dur, math.Abs(sp*dur), rp, 100*math.Abs(sp*dur/rp))
+		}
+		return
+	}
+	if okP && math.Abs(sp*span) > driftP {
+		a.warnf("the pressure baseline drifts by about %+.2g mmHg over %.0f s of steady beats: pressures (EDP above all) carry the drift", sp*span, span)
+	}
+	if okV && math.Abs(sv*span) > driftVFrac*medEDV {
+		a.warnf("volumes drift by about %+.2g mL over %.0f s of steady beats (conductance drift?): volumes carry the drift", sv*span, span)
+	}
+}
+
+// trend is the least-squares slope of y against t, and whether it exceeds
+// driftSig standard errors.
+func trend(t, y []float64) (float64, bool) {
+	alpha, beta := stat.LinearRegression(t, y, nil, false)
+	var rss, stt float64
+	mt := stat.Mean(t, nil)
+	for i := range t {
+		r := y[i] - alpha - beta*t[i]
+		rss += r * r
+		stt += (t[i] - mt) * (t[i] - mt)
+	}
+	se := math.Sqrt(rss/float64(len(t)-2)) / math.Sqrt(stt)
+	return beta, math.Abs(beta) > driftSig*se
+}
+
+func spread(x []float64) float64 {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, v := range x {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	return hi - lo
 }
