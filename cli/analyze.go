@@ -254,4 +254,3 @@ func sourceText(s string) string {
 	}
 	return "none (V0 = 0: end-systole at maximal P/V)"
 }
-
