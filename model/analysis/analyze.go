@@ -24,6 +24,10 @@ const (
 	SourceESPVR      = "espvr"       // the ESPVR fitted to a preload run
 	SourceSingleBeat = "single-beat" // Chen et al. 2001 (Ees only)
 	SourceNone       = "none"        // unknown: V0 = 0 for finding end-systole (maximal P/V), PE not measured
+	// SourceVolumeFloor: unknown, and volumes fall below 1 mL (an offset):
+	// V0 is taken 10 mL below the smallest volume for finding end-systole
+	// only; PE, PVA, efficiency and VO2 are not measured.
+	SourceVolumeFloor = "volume-floor"
 )
 
 // Analysis is a recording measured beat by beat, with the relations fitted to it.
@@ -121,9 +125,12 @@ func Analyze(r *Recording, o Options) (*Analysis, error) {
 	for i, b := range a.Beats {
 		b.Index = i + 1
 	}
-	// First pass: V0 unknown.
+	// First pass: V0 unknown; below the volumes when they carry an offset.
 	a.Known = model.Unknown()
 	a.V0Source, a.EesSource = SourceNone, SourceNone
+	if lo, _ := percentiles(r.V); lo < 1 {
+		a.Known.V0, a.V0Source = lo-10, SourceVolumeFloor
+	}
 	a.measure()
 	if err := a.checkOrientation(); err != nil {
 		return nil, err
@@ -164,6 +171,10 @@ func (a *Analysis) measure() {
 				b.Dropped = "not measurable: " + err.Error()
 			}
 			continue
+		}
+		if a.V0Source == SourceVolumeFloor {
+			nan := math.NaN()
+			m.PE, m.PVA, m.Efficiency, m.VO2 = nan, nan, nan, nan
 		}
 		b.Metrics, b.Measured = m, true
 	}
@@ -209,10 +220,14 @@ func (a *Analysis) fitRelations() {
 	}
 	var fit ESPVRFit
 	var err error
+	v0Start := 0.0
+	if a.V0Source == SourceVolumeFloor {
+		v0Start = a.Known.V0
+	}
 	if a.Options.ESPVR == "quadratic" {
-		fit, err = FitESPVRQuadratic(samples, 0)
+		fit, err = FitESPVRQuadratic(samples, v0Start)
 	} else {
-		fit, err = FitESPVR(samples, 0)
+		fit, err = FitESPVR(samples, v0Start)
 	}
 	if err != nil {
 		a.notef("ESPVR not fitted to beats %d–%d: %v", a.PreloadRun[0].Index, a.PreloadRun[len(a.PreloadRun)-1].Index, err)
