@@ -67,7 +67,7 @@ func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
 	back := int(math.Round(edSearch / sig.dt))
 	var ups []int
 	for i := 0; i < n; {
-		if d[i] < thr {
+		if !(d[i] >= thr) {
 			i++
 			continue
 		}

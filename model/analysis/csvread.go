@@ -160,6 +160,9 @@ func ReadCSV(r io.Reader, name string, o ReadOptions) (*Recording, error) {
 	if len(t) < 2 {
 		return nil, ierr("", "holds %d usable samples; a recording needs at least a few beats", len(t))
 	}
+	if err := checkBounds(name, names, c, units, p, v, pao, lines); err != nil {
+		return nil, err
+	}
 	scaleAll(t, timeScale[units.TimeUnit])
 	scaleAll(p, pressureScale[units.PressureUnit])
 	scaleAll(pao, pressureScale[units.PressureUnit])
@@ -320,4 +323,29 @@ func csvError(name string, err error) error {
 		return &InputError{File: name, Line: pe.Line, Msg: "not valid CSV: " + pe.Err.Error()}
 	}
 	return fmt.Errorf("cannot read recording %s: %w", name, err)
+}
+
+// maxAbsValue bounds any pressure (mmHg) or volume (mL) a recording may hold:
+// beyond it a value is a fault of the file, not a measurement, and would
+// overflow the filters.
+const maxAbsValue = 1e5
+
+// checkBounds refuses a pressure or volume beyond ±maxAbsValue once
+// converted, naming its line.
+func checkBounds(name string, names []string, c chosen, u Columns, p, v, pao []float64, lines []int) error {
+	for _, col := range []struct {
+		x     []float64
+		i     int
+		scale float64
+		unit  string
+	}{{p, c.pressure, pressureScale[u.PressureUnit], "mmHg"}, {pao, c.aortic, pressureScale[u.PressureUnit], "mmHg"},
+		{v, c.volume, volumeScale[u.VolumeUnit], "mL"}} {
+		for k, x := range col.x {
+			if math.Abs(x*col.scale) > maxAbsValue {
+				return &InputError{File: name, Line: lines[k], Column: names[col.i], Msg: fmt.Sprintf(
+					"%g is %g %s, beyond the ±%g %s any recording may hold", x, x*col.scale, col.unit, float64(maxAbsValue), col.unit)}
+			}
+		}
+	}
+	return nil
 }
