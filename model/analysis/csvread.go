@@ -328,7 +328,7 @@ func csvError(name string, err error) error {
 // maxAbsValue bounds any pressure (mmHg) or volume (mL) a recording may hold:
 // beyond it a value is a fault of the file, not a measurement, and would
 // overflow the filters.
-const maxAbsValue = 1e5
+const maxAbsValue = 1e7
 
 // checkBounds refuses a pressure or volume beyond ±maxAbsValue once
 // converted, naming its line.
@@ -343,7 +343,7 @@ func checkBounds(name string, names []string, c chosen, u Columns, p, v, pao []f
 		for k, x := range col.x {
 			if math.Abs(x*col.scale) > maxAbsValue {
 				return &InputError{File: name, Line: lines[k], Column: names[col.i], Msg: fmt.Sprintf(
-					"%g is %g %s, beyond the ±%g %s any recording may hold", x, x*col.scale, col.unit, float64(maxAbsValue), col.unit)}
+					"%g is %g %s, beyond the ±%g %s any recording may hold; check the column and its unit", x, x*col.scale, col.unit, float64(maxAbsValue), col.unit)}
 			}
 		}
 	}

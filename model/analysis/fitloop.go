@@ -114,7 +114,6 @@ type modelLooper struct {
 	dt      float64
 	sm, d1  *SavGol
 	raw     bool
-	tg      []float64 // uniform grid, 0..period
 	pad     int
 	pb, vb  []float64 // padded periodic buffers
 	pf, vf  []float64 // filtered
