@@ -94,6 +94,13 @@ func ReadCSV(r io.Reader, name string, o ReadOptions) (*Recording, error) {
 		return nil, err
 	}
 	rec := &Recording{Source: name}
+	if c.time < 0 && o.Rate > 0 {
+		for _, n := range names {
+			if classify(n).role == roleTime {
+				rec.warnf("--rate %g Hz given: the time column %q is not read", o.Rate, n)
+			}
+		}
+	}
 	units, err := resolveUnits(names, c, o, rec)
 	if err != nil {
 		return nil, &InputError{File: name, Msg: err.Error()}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 
 	"gonum.org/v1/gonum/interp"
 )
@@ -49,7 +50,9 @@ func (r *Recording) setTimeline(lines []int, o ReadOptions) error {
 			"sampling rate %.4g Hz (median step %.4g %s) is outside %d to %d Hz%s",
 			rate, med/timeScale[r.Columns.TimeUnit], r.Columns.TimeUnit, MinRate, MaxRate, hint)}
 	}
-	r.Rate = rate
+	// The median interval carries the file's rounding: 1/0.004 reads as
+	// 249.99999999999977. Nine significant digits are plenty.
+	r.Rate, _ = strconv.ParseFloat(strconv.FormatFloat(rate, 'g', 9, 64), 64)
 
 	// Split at long gaps; resample segments with short gaps or jitter.
 	var segs []Span
