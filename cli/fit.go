@@ -135,7 +135,7 @@ func fitObject(path, out string, a *analysis.Analysis, r *analysis.FitResult, sc
 		{"params", paramsObject(r.Params)},
 		{"model_metrics", metricsObject(&r.Metrics)},
 		{"recording_metrics", rec},
-		{"warnings", nonNil(a.Warnings)},
+		{"warnings", append(nonNil(r.Warnings), a.Warnings...)},
 	}
 }
 
@@ -165,7 +165,7 @@ func writeFitTable(env *Env, path, out string, a *analysis.Analysis, r *analysis
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", s.Label, formatValue(med[k]), formatValue(s.Get(&r.Metrics)), s.Unit)
 	}
 	tw.Flush()
-	for _, x := range a.Warnings {
+	for _, x := range append(append([]string(nil), r.Warnings...), a.Warnings...) {
 		fmt.Fprintf(w, "Warning: %s\n", x)
 	}
 	if out != "" {

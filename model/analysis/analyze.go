@@ -3,6 +3,7 @@ package analysis
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"pvcouple/model"
 )
@@ -145,7 +146,21 @@ func Analyze(r *Recording, o Options) (*Analysis, error) {
 		classifyBeats(seg)
 	}
 	if len(a.Kept()) == 0 {
-		return nil, &InputError{File: r.Source, Msg: fmt.Sprintf("no beat could be kept among the %d found; see `--format json` for the reasons", len(a.Beats))}
+		count := map[string]int{}
+		var order []string
+		for _, b := range a.Beats {
+			why, _, _ := strings.Cut(b.Dropped, ":")
+			if count[why] == 0 {
+				order = append(order, why)
+			}
+			count[why]++
+		}
+		var parts []string
+		for _, w := range order {
+			parts = append(parts, fmt.Sprintf("%d %s", count[w], w))
+		}
+		return nil, &InputError{File: r.Source, Msg: fmt.Sprintf("no beat could be kept among the %d found (%s); are these LV pressure and volume?",
+			len(a.Beats), strings.Join(parts, ", "))}
 	}
 
 	a.fitRelations()

@@ -35,11 +35,11 @@ const (
 // digits) that mark a column's role, site and unit. "µl" and "μl" read as "ul".
 var (
 	timeWords     = wordSet("time t sec secs seconds timestamp elapsed")
-	pressureWords = wordSet("pressure p press pres lvp plv")
+	pressureWords = wordSet("pressure p press pres lvp plv aop")
 	volumeWords   = wordSet("volume v vol lvv vlv")
 	notSignal     = wordSet("dp dv dt dpdt dvdt derivative deriv flow q ecg elastance conductance")
 	lvWords       = wordSet("lv left ventricle ventricular lvp plv lvv vlv")
-	aorticWords   = wordSet("ao aortic aorta art arterial abp")
+	aorticWords   = wordSet("ao aop aortic aorta art arterial abp")
 	otherSites    = wordSet("la ra rv pa atrial atrium pulmonary right wedge pcwp cvp esophageal venous")
 	unitWords     = map[string]struct {
 		role role

@@ -57,7 +57,13 @@ type FitResult struct {
 	Target      *Loop         // the recording's mean steady loop
 	Model       *Loop         // the fitted model's loop on the same grid
 	Metrics     model.Metrics // the fitted model's steady-beat measurements
+	Warnings    []string      // doubts about the fit
 }
+
+// poorFit is the residual, mmHg or mL root-mean-square, above which the fit
+// is reported as not reproducing the loop (several times the noise of a
+// catheter recording; common practice, no source).
+const poorFit = 3
 
 // ErrNotSteady is returned by FitModel when a recording has too few steady beats.
 var ErrNotSteady = errors.New("too few steady beats")
@@ -184,6 +190,13 @@ func FitModel(a *Analysis, o FitOptions) (*FitResult, error) {
 	modelLoop := &Loop{Period: period, T: append([]float64(nil), ml.T...), P: append([]float64(nil), ml.P...), V: append([]float64(nil), ml.V...)}
 	r := &FitResult{Params: p, HeartRate: hr, Beats: used, Stopped: stopped, Target: target, Model: modelLoop, Metrics: st.Metrics}
 	r.RMSPressure, r.RMSVolume = rms(modelLoop.P, target.P), rms(modelLoop.V, target.V)
+	if r.RMSPressure > poorFit || r.RMSVolume > poorFit {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("the model does not reproduce this loop well (residual %.2g mmHg, %.2g mL): "+
+			"treat the fitted values as a rough match, not a measurement", r.RMSPressure, r.RMSVolume))
+	}
+	if stopped != "converged" {
+		r.Warnings = append(r.Warnings, "the search "+stopped+"; the fit may not be the best")
+	}
 	starts, _ := decode(x0, base)
 	r.Fitted = determinacy(cost, x, best, p, starts)
 	r.Evaluations = evals
