@@ -65,6 +65,7 @@ type InputError struct {
 	Msg    string
 }
 
+// Error formats the problem as FILE:LINE: column "NAME": message.
 func (e *InputError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
