@@ -43,6 +43,10 @@ type BeatSamples struct {
 	DPdt []float64
 	// Pao is proximal aortic pressure, mmHg. If nil, MAP, SBP and DBP are NaN.
 	Pao []float64
+	// EDAtStart marks a beat cut at end-diastole, as recorded beats are: its
+	// first sample is end-diastole. Otherwise end-diastole is the sample of
+	// largest volume, which noise would move along the isovolumic plateau.
+	EDAtStart bool
 }
 
 // Known is what is known of the heart and its load beyond the samples: exact
@@ -77,7 +81,8 @@ const tauWindowAboveEDP = 5
 // Measure takes the measurements of one beat from its samples.
 //
 // End-diastole is the sample of largest volume before the peak of dP/dt
-// (the largest of the beat when it is periodic). End-systole is the sample of
+// (the largest of the beat when it is periodic), or the first sample when
+// b.EDAtStart is set. End-systole is the sample of
 // maximal P/(V − V0) (SCIENCE.md §6), among samples with V − V0 above 2 % of
 // EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
 // maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
@@ -129,7 +134,7 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 		last = n - 1
 	}
 	ied := 0
-	for i := 1; i <= last; i++ {
+	for i := 1; i <= last && !b.EDAtStart; i++ {
 		if b.V[i] > b.V[ied] {
 			ied = i
 		}

@@ -2,4 +2,10 @@
 // catheter laboratory does: beats, end-systolic and end-diastolic relations,
 // and single-beat estimates. Per-beat measurements use model.Measure, the same
 // code that measures the model's own beats.
+//
+// The way through it: LoadCSV (or ReadCSV) reads a recording into a
+// Recording; Analyze finds and measures its beats and fits the relations,
+// giving an Analysis; FitModel fits the model to the analysis's steady beats.
+// Open does LoadCSV and Analyze in one call, and Analysis.Overlay gives the
+// kept loops ready to draw beside the model's.
 package analysis

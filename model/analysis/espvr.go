@@ -24,7 +24,8 @@ type ESPVRFit struct {
 	V0         float64 // volume intercept, mL
 	R2         float64 // coefficient of determination of the last fit
 	Beats      int     // loops used
-	Method     string  // "iterated-max-elastance-linear"
+	Method     string  // "iterated-max-elastance-linear" or "…-quadratic"
+	Curvature  float64 // mmHg/mL², of a quadratic fit (0 for a linear one)
 	Iterations int     // V0 iterations until the end-systolic points stopped changing
 	Points     []Point // end-systolic points of the last iteration
 }

@@ -1,0 +1,192 @@
+package cli
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"pvcouple/internal/synthrec"
+	"pvcouple/model"
+	"pvcouple/presets"
+)
+
+// writeRecording writes a synthetic recording made by the model (normal
+// preset; steady beats, then a caval occlusion of our own when occlusion > 0)
+// and returns its path.
+func writeRecording(t *testing.T, steady, occlusion int, header ...string) string {
+	t.Helper()
+	sc, err := presets.Get("normal")
+	if err != nil {
+		t.Fatal(err)
+	}
+	sr, err := synthrec.Make(synthrec.Spec{Params: sc.Params, SteadyBeats: steady, OcclusionBeats: occlusion, OcclusionStep: 0.88,
+		Rate: 1000, Seed: 1, NoiseP: 0.5, NoiseV: 0.5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(header) == 0 {
+		header = []string{"time_s", "pressure_mmhg", "volume_ml"}
+	}
+	path := filepath.Join(t.TempDir(), "rec.csv")
+	f, err := os.Create(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if err := sr.WriteCSV(f, header[0], header[1], header[2], ""); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func TestAnalyzeJSON(t *testing.T) {
+	path := writeRecording(t, 8, 10)
+	code, out, errs := runCLI(t, "analyze", path, "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Beats []map[string]any `json:"beats"`
+		ESPVR *struct {
+			Ees    float64 `json:"ees_mmhg_per_ml"`
+			V0     float64 `json:"v0_ml"`
+			R2     float64 `json:"r2"`
+			Beats  int     `json:"beats"`
+			Method string  `json:"method"`
+		} `json:"espvr"`
+		EDPVR      map[string]any `json:"edpvr"`
+		SingleBeat struct {
+			Chen  map[string]float64 `json:"chen_2001"`
+			Klotz map[string]any     `json:"klotz_2006"`
+		} `json:"single_beat"`
+		V0Source string `json:"v0_source"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("not JSON: %v", err)
+	}
+	if doc.ESPVR == nil || doc.ESPVR.Beats < 5 || doc.ESPVR.Method != "iterated-max-elastance-linear" || doc.V0Source != "espvr" {
+		t.Errorf("espvr %+v, v0 source %q", doc.ESPVR, doc.V0Source)
+	}
+	if doc.EDPVR == nil || doc.SingleBeat.Chen["ees_mmhg_per_ml"] <= 0 || doc.SingleBeat.Klotz["beta"] == nil {
+		t.Errorf("edpvr %v, single beat %+v", doc.EDPVR, doc.SingleBeat)
+	}
+	if len(doc.Beats) < 17 {
+		t.Fatalf("%d beats", len(doc.Beats))
+	}
+	for _, b := range doc.Beats {
+		for _, k := range append([]string{"beat", "start_s", "end_s", "kept", "drop_reason"}, metricKeys()...) {
+			if _, ok := b[k]; !ok {
+				t.Fatalf("beat row lacks %s: %v", k, b)
+			}
+		}
+		if b["kept"] == true && (b["map_mmhg"] != nil || b["edv_ml"] == nil) {
+			t.Errorf("kept beat: MAP %v (LV-only: want null), EDV %v", b["map_mmhg"], b["edv_ml"])
+		}
+		if b["kept"] == false && b["drop_reason"] == nil {
+			t.Errorf("dropped beat without a reason: %v", b)
+		}
+	}
+}
+
+func metricKeys() []string {
+	var k []string
+	for _, s := range model.MetricSpecs {
+		k = append(k, s.Key)
+	}
+	return k
+}
+
+func TestAnalyzeTable(t *testing.T) {
+	path := writeRecording(t, 8, 10, "Time (ms)", "LV Pressure (mmHg)", "LV Volume [ml]")
+	// The header says ms but the values are seconds: refused with a hint.
+	code, _, errs := runCLI(t, "analyze", path)
+	if code != 1 || !strings.Contains(errs, "--time-unit s") {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+	code, out, errs := runCLI(t, "analyze", path, "--time-unit", "s")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"ESPVR (iterated-max-elastance-linear", "EDPVR", "Chen et al. 2001", "Klotz et al. 2006", "dropped: incomplete", "Warning: column \"Time (ms)\" is named in ms"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("table lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+func TestAnalyzeBadInput(t *testing.T) {
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("time_s,pressure_mmhg,volume_ml\n0,10,abc\n"), 0o644)
+	for _, c := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"analyze"}, 2, "needs a recording"},
+		{[]string{"analyze", "a.csv", "b.csv"}, 2, "one recording"},
+		{[]string{"analyze", filepath.Join(dir, "none.csv")}, 1, "no such file"},
+		{[]string{"analyze", bad}, 1, `bad.csv:2: column "volume_ml": "abc" is not a number`},
+		{[]string{"analyze", bad, "--format", "xml"}, 2, "--format"},
+		{[]string{"analyze", bad, "--smooth-ms", "500"}, 2, "--smooth-ms"},
+		{[]string{"analyze", bad, "--espvr", "cubic"}, 2, "--espvr"},
+	} {
+		code, _, errs := runCLI(t, c.args...)
+		if code != c.code || !strings.Contains(errs, c.want) || strings.Contains(errs, "goroutine") {
+			t.Errorf("%v: exit %d, stderr %q; want %d and %q", c.args, code, errs, c.code, c.want)
+		}
+	}
+}
+
+func TestFitWritesScenario(t *testing.T) {
+	path := writeRecording(t, 10, 0)
+	out := filepath.Join(t.TempDir(), "fitted.yaml")
+	code, stdout, errs := runCLI(t, "fit", path, "-o", out, "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Residual map[string]float64 `json:"residual"`
+		Fitted   []struct {
+			Key, Note string
+			Value     float64
+		} `json:"fitted"`
+		ScenarioFile string `json:"scenario_file"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Fitted) != 8 || doc.Residual["rms_pressure_mmhg"] > 2 || doc.ScenarioFile != out {
+		t.Errorf("fit output %+v", doc)
+	}
+	sc, err := presets.LoadScenario(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sc.Baseline == nil || !strings.Contains(sc.Notes, "Fitted by pvcouple fit") || !strings.Contains(sc.Notes, "rec.csv") {
+		t.Errorf("scenario: baseline %v, notes %q", sc.Baseline, sc.Notes)
+	}
+	// The scenario opens in the other commands.
+	if code, _, errs := runCLI(t, "solve", "--scenario", out); code != 0 {
+		t.Errorf("solve --scenario: exit %d: %s", code, errs)
+	}
+	// No overwrite without --force.
+	code, _, errs = runCLI(t, "fit", path, "-o", out)
+	if code != 1 || !strings.Contains(errs, "--force") {
+		t.Errorf("overwrite: exit %d: %s", code, errs)
+	}
+	code, table, errs := runCLI(t, "fit", path, "-o", out, "--force")
+	if code != 0 || !strings.Contains(table, "DETERMINACY") || !strings.Contains(table, "Wrote") {
+		t.Errorf("--force: exit %d: %s\n%s", code, errs, table)
+	}
+}
+
+func TestFitRefusesOcclusionOnly(t *testing.T) {
+	path := writeRecording(t, 2, 10)
+	code, _, errs := runCLI(t, "fit", path)
+	if code != 1 || !strings.Contains(errs, "steady beats") {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+}

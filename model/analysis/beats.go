@@ -1,0 +1,186 @@
+package analysis
+
+import (
+	"math"
+	"slices"
+
+	"pvcouple/model"
+)
+
+// Beat detection without an ECG (common practice, no source): each beat's
+// pressure upstroke is a peak of dP/dt (smoothed over at least detectWindow)
+// above upstrokeFrac of the recording's high dP/dt (its 99.5th percentile),
+// at least refractory apart.
+//
+// End-diastole is the later of two points before the upstroke: the onset of
+// contraction, the last sample where dP/dt is below onsetFrac of its peak;
+// and the start of the plateau of largest volume, the first sample of the
+// last run within a band of the largest volume, searched from at most
+// edSearch before the upstroke until dP/dt reaches edFrac of its peak
+// (isovolumic contraction is then well under way). The band is three noise
+// SDs of the volume passed to the measurements (at least 0.1 % of the volume)
+// so that noise cannot move end-diastole into isovolumic contraction. When
+// filling lasts into contraction (fast heart rates) the plateau starts at
+// mitral closure; otherwise the onset of contraction ends a flat diastasis.
+// On a clean model recording both give the model's own end-diastole within a
+// fraction of a mmHg.
+const (
+	upstrokeFrac = 0.35
+	edFrac       = 0.50
+	onsetFrac    = 0.05
+	edBandSD     = 3
+	edBandMin    = 1e-3
+	refractory   = 0.25 // s: heart rates up to 240 bpm
+	edSearch     = 0.25 // s
+)
+
+// Beat is one beat of a recording, from one end-diastole to the next
+// inclusive, with its measurements.
+type Beat struct {
+	Index    int     // 1-based, in time order
+	Start    float64 // time of its first sample (end-diastole), s
+	End      float64 // time of its last sample (the next end-diastole), s
+	Upstroke float64 // time of its peak dP/dt, s; NaN for fragments
+	// Samples are the filtered samples of the beat, as passed to model.Measure.
+	Samples model.BeatSamples
+	// Metrics are its measurements; all NaN when Measured is false.
+	Metrics  model.Metrics
+	Measured bool
+	// Dropped says why the beat is left out of the fits and summaries; empty
+	// when it is kept.
+	Dropped string
+	// from, to index the beat's samples in the recording.
+	from, to int
+	seg      *signals
+}
+
+// Kept reports whether the beat is used.
+func (b *Beat) Kept() bool { return b.Dropped == "" }
+
+// findBeats cuts one filtered segment into beats. thr is the dP/dt threshold
+// of an upstroke, mmHg/s. Fragments at the ends of the segment are returned
+// as dropped beats without measurements.
+func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
+	d := sig.detect
+	n := len(d)
+	refr := int(math.Round(refractory / sig.dt))
+	back := int(math.Round(edSearch / sig.dt))
+	var ups []int
+	for i := 0; i < n; {
+		if !(d[i] >= thr) {
+			i++
+			continue
+		}
+		k := i
+		for ; i < n && d[i] >= thr; i++ {
+			if d[i] > d[k] {
+				k = i
+			}
+		}
+		if m := len(ups); m > 0 && k-ups[m-1] < refr {
+			if d[k] > d[ups[m-1]] {
+				ups[m-1] = k
+			}
+			continue
+		}
+		ups = append(ups, k)
+	}
+	// End-diastole of each upstroke; −1 where none is found.
+	eds := make([]int, len(ups))
+	v := sig.v
+	for j, k := range ups {
+		lim := max(0, k-back)
+		if j > 0 {
+			lim = max(lim, ups[j-1]+1)
+		}
+		eds[j] = -1
+		end := -1
+		for i := k; i >= lim; i-- {
+			if d[i] < edFrac*d[k] {
+				end = i
+				break
+			}
+		}
+		if end < 0 {
+			continue
+		}
+		onset := end
+		for onset > lim && d[onset] >= onsetFrac*d[k] {
+			onset--
+		}
+		top := lim
+		for i := lim; i <= end; i++ {
+			if v[i] > v[top] {
+				top = i
+			}
+		}
+		band := math.Max(edBandSD*sig.noiseVOut, edBandMin*math.Abs(v[top]))
+		i := top
+		for i > lim && v[i-1] >= v[top]-band {
+			i--
+		}
+		eds[j] = max(i, onset)
+	}
+	var beats []*Beat
+	frag := func(from, to int, why string) {
+		if to-from < 2 {
+			return
+		}
+		beats = append(beats, &Beat{Start: sig.t[from], End: sig.t[to-1], Upstroke: math.NaN(), Dropped: why,
+			Metrics: nanMetrics(), from: sig.from + from, to: sig.from + to, seg: sig})
+	}
+	first := -1
+	for j := range ups {
+		if eds[j] >= 0 {
+			first = j
+			break
+		}
+	}
+	if first < 0 {
+		frag(0, n, atStart)
+		return beats
+	}
+	frag(0, eds[first]+1, atStart)
+	prev := first
+	for j := first + 1; j < len(ups); j++ {
+		if eds[j] < 0 {
+			continue // merged into the beat before: found as a long cycle
+		}
+		a, b := eds[prev], eds[j]
+		beats = append(beats, &Beat{Start: sig.t[a], End: sig.t[b], Upstroke: sig.t[ups[prev]],
+			from: sig.from + a, to: sig.from + b + 1, seg: sig, Metrics: nanMetrics()})
+		prev = j
+	}
+	frag(eds[prev], n, atEnd)
+	return beats
+}
+
+// upstrokeThreshold is upstrokeFrac of the 99.5th percentile of dP/dt over
+// all segments.
+func upstrokeThreshold(segs []*signals) float64 {
+	var all []float64
+	for _, s := range segs {
+		all = append(all, s.detect...)
+	}
+	slices.Sort(all)
+	return upstrokeFrac * all[int(0.995*float64(len(all)-1))]
+}
+
+// samples returns the beat's filtered samples for model.Measure.
+func (b *Beat) samples() model.BeatSamples {
+	s := b.seg
+	i, j := b.from-s.from, b.to-s.from
+	bs := model.BeatSamples{T: s.t[i:j], P: s.p[i:j], V: s.v[i:j], DPdt: s.dpdt[i:j], EDAtStart: true}
+	if s.pao != nil {
+		bs.Pao = s.pao[i:j]
+	}
+	return bs
+}
+
+// nanMetrics is a Metrics with every value NaN.
+func nanMetrics() model.Metrics {
+	nan := math.NaN()
+	return model.Metrics{EDV: nan, ESV: nan, SV: nan, EF: nan, EDP: nan, ESP: nan, Ea: nan, Ees: nan, EaEes: nan,
+		EaRT: nan, EaSegers: nan, HR: nan, CO: nan, MAP: nan, SBP: nan, DBP: nan, SW: nan, PE: nan, PVA: nan,
+		Efficiency: nan, VO2: nan, DPdtMax: nan, DPdtMin: nan, Tau: nan, EDStress: nan, ESStress: nan, TED: nan, TES: nan}
+}

@@ -1,0 +1,54 @@
+package analysis
+
+import (
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"pvcouple/internal/synthrec"
+)
+
+// Open and Overlay give the TUI closed, finite loops of the kept beats
+// within their bounds, and a representative steady loop.
+func TestOverlay(t *testing.T) {
+	spec := occlusion(presetParams(t, "normal"))
+	spec.NoiseP, spec.NoiseV = 0.5, 0.5
+	sr, err := synthrec.Make(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "rec.csv")
+	f, err := os.Create(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := sr.WriteCSV(f, "time_s", "pressure_mmhg", "volume_ml", ""); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	a, err := Open(path, ReadOptions{}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ov := a.Overlay()
+	if len(ov.Loops) > len(a.Kept()) || len(ov.Loops) < 15 {
+		t.Errorf("%d loops for %d kept beats", len(ov.Loops), len(a.Kept()))
+	}
+	if ov.Representative < 0 || !ov.Loops[ov.Representative].Steady || ov.ESPVR == nil {
+		t.Errorf("representative %d, ESPVR %v", ov.Representative, ov.ESPVR)
+	}
+	for _, l := range ov.Loops {
+		if len(l.V) != len(l.P) || len(l.V) < 100 {
+			t.Fatalf("beat %d: %d/%d points", l.Beat, len(l.V), len(l.P))
+		}
+		for i := range l.V {
+			if math.IsNaN(l.V[i]+l.P[i]) || l.V[i] < ov.VMin || l.V[i] > ov.VMax || l.P[i] < ov.PMin || l.P[i] > ov.PMax {
+				t.Fatalf("beat %d point %d (%g, %g) outside bounds %+v", l.Beat, i, l.V[i], l.P[i], ov)
+			}
+		}
+	}
+	if _, err := Open(filepath.Join(t.TempDir(), "missing.csv"), ReadOptions{}, Options{}); err == nil {
+		t.Error("missing file opened")
+	}
+}
