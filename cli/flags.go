@@ -28,7 +28,11 @@ func newFlags(env *Env, name, synopsis, about string) *flagSet {
 			if name != "" {
 				name = " " + name
 			}
-			fmt.Fprintf(w, "  --%s%s\n      %s", f.Name, name, usage)
+			dash := "--"
+			if len(f.Name) == 1 {
+				dash = "-" // short options read better with one dash: -o FILE
+			}
+			fmt.Fprintf(w, "  %s%s%s\n      %s", dash, f.Name, name, usage)
 			if f.DefValue != "" && f.DefValue != "[]" && f.DefValue != "false" {
 				fmt.Fprintf(w, " (default %s)", f.DefValue)
 			}
