@@ -39,7 +39,9 @@ func TestAxisValues(t *testing.T) {
 // value, and the allowed range with its unit.
 func TestGridValidate(t *testing.T) {
 	base := normal(t)
-	ees := func(from, to float64, n int) sweep.Axis { return sweep.Axis{Key: "ees_mmhg_per_ml", From: from, To: to, N: n} }
+	ees := func(from, to float64, n int) sweep.Axis {
+		return sweep.Axis{Key: "ees_mmhg_per_ml", From: from, To: to, N: n}
+	}
 	for _, c := range []struct {
 		name string
 		axes []sweep.Axis
