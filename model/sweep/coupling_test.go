@@ -49,12 +49,7 @@ func TestStrokeWorkPeaksNearEaEesOne(t *testing.T) {
 	if ratio[0] > 0.5 || ratio[len(ratio)-1] < 2 {
 		t.Fatalf("sweep spans Ea/Ees %.2f to %.2f; it must bracket 1 widely", ratio[0], ratio[len(ratio)-1])
 	}
-	best := 0
-	for i := range sw {
-		if sw[i] > sw[best] {
-			best = i
-		}
-	}
+	_, best := sweep.Extremes(sw)
 	if best == 0 || best == len(sw)-1 {
 		t.Fatalf("stroke work is largest at the end of the sweep (Ea/Ees %.2f)", ratio[best])
 	}

@@ -153,3 +153,20 @@ func TestMapAround(t *testing.T) {
 		}
 	}
 }
+
+func TestExtremes(t *testing.T) {
+	nan := math.NaN()
+	for _, c := range []struct {
+		f      []float64
+		lo, hi int
+	}{
+		{[]float64{nan, 3, -1, 7, nan, 7}, 2, 3},
+		{[]float64{nan, nan}, -1, -1},
+		{nil, -1, -1},
+		{[]float64{5}, 0, 0},
+	} {
+		if lo, hi := sweep.Extremes(c.f); lo != c.lo || hi != c.hi {
+			t.Errorf("%v: %d, %d; want %d, %d", c.f, lo, hi, c.lo, c.hi)
+		}
+	}
+}

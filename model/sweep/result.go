@@ -59,3 +59,23 @@ func field(pts []Point, metric string) ([]float64, error) {
 	}
 	return f, nil
 }
+
+// Extremes returns the indices of the smallest and largest values of a
+// field, skipping NaN (points not solved or not settled); both are −1 when
+// every value is NaN. A map uses them for its colour scale and to mark the
+// optimum of a metric.
+func Extremes(field []float64) (iMin, iMax int) {
+	iMin, iMax = -1, -1
+	for i, v := range field {
+		if math.IsNaN(v) {
+			continue
+		}
+		if iMin < 0 || v < field[iMin] {
+			iMin = i
+		}
+		if iMax < 0 || v > field[iMax] {
+			iMax = i
+		}
+	}
+	return iMin, iMax
+}
