@@ -23,15 +23,16 @@ func init() {
 	register(command{"sweep", "solve a grid of parameter values and print one row of measurements per point", runSweep})
 }
 
-var sweepAbout = `Solves the model to its periodic steady state at every point of a grid and prints one
-row per point: the varied values, status (ok, not_settled, invalid), beats, every
-measurement of 'pvcouple solve' (empty in CSV, null in JSON where it cannot be taken)
-and, for a failed point, the error. Each --vary KEY=FROM:TO:N gives N evenly spaced
-values from FROM to TO inclusive, in the parameter's unit (see 'pvcouple params');
-rows run with the first --vary slowest. The grid is solved on every core, each point
-starting from the steady state of its neighbour; a point that does not settle is
-reported in its row and the sweep goes on. At most ` + strconv.Itoa(sweep.MaxPoints) + ` points. A progress bar
-is shown on standard error when it is a terminal and the run takes more than a second.
+var sweepAbout = `Solves the model to its periodic steady state at every point of a grid and prints
+one row per point: the varied values, status (ok, not_settled, invalid, failed),
+beats, every measurement of 'pvcouple solve' (empty in CSV, null in JSON where it
+cannot be taken; ees_mmhg_per_ml once, when it is varied) and, for a failed point,
+the error. Each --vary KEY=FROM:TO:N gives N evenly spaced values from FROM to TO
+inclusive, in the parameter's unit (see 'pvcouple params'); rows run with the first
+--vary slowest. The grid is solved on every core, each point starting from the
+steady state of its neighbour; a point that does not settle is reported in its row
+and the sweep goes on. At most ` + strconv.Itoa(sweep.MaxPoints) + ` points. A progress bar is shown on standard
+error when it is a terminal and the run takes more than a second.
 
 Example: pvcouple sweep --vary resistance_mmhg_s_per_ml=0.4:2:41 --vary ees_mmhg_per_ml=1:4:31`
 
