@@ -102,7 +102,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 				dc.FillText(ts, vg.Point{X: dc.Min.X, Y: y}, l)
 				y -= th
 			}
-			ts = textStyle(titleSize, false) // lines after the first are plain
+			ts = textStyle(titleSize, false) // paragraphs after the first are plain
 		}
 		dc = draw.Crop(dc, 0, 0, 0, -(dc.Max.Y - y - th + vg.Points(6)))
 	}
