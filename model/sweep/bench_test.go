@@ -1,0 +1,49 @@
+package sweep_test
+
+import (
+	"context"
+	"testing"
+
+	"pvcouple/model"
+	"pvcouple/model/sweep"
+	"pvcouple/presets"
+)
+
+func normal(tb testing.TB) model.Params {
+	tb.Helper()
+	sc, err := presets.Get("normal")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return sc.Params
+}
+
+// bench10k solves a 100 × 100 map of contractility against resistance around
+// the normal preset (Ees 1.25–5 mmHg/mL, R 0.425–1.7 mmHg·s/mL).
+func bench10k(b *testing.B, workers int) {
+	g, err := sweep.MapAround(normal(b), "resistance_mmhg_s_per_ml", "ees_mmhg_per_ml", 100, 100)
+	if err != nil {
+		b.Fatal(err)
+	}
+	var res *sweep.Result
+	for b.Loop() {
+		if res, err = sweep.Run(context.Background(), g, sweep.Options{Workers: workers}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	beats := 0
+	for _, p := range res.Points {
+		beats += p.Beats
+	}
+	b.ReportMetric(float64(len(res.Points))*float64(b.N)/b.Elapsed().Seconds(), "points/s")
+	b.ReportMetric(float64(beats)/float64(len(res.Points)), "beats/point")
+	b.ReportMetric(float64(len(res.Points)-res.Count(sweep.OK)), "failed")
+	b.ReportMetric(float64(res.Workers), "workers")
+}
+
+// BenchmarkSweep10k is the speed target of the sweep: a 10,000-point grid in
+// at most 5 s on two cores, with every core in use.
+func BenchmarkSweep10k(b *testing.B) { bench10k(b, 0) }
+
+// BenchmarkSweep10kOneWorker is the same grid on one worker, to show the scaling.
+func BenchmarkSweep10kOneWorker(b *testing.B) { bench10k(b, 1) }
