@@ -158,7 +158,7 @@ func summarize(c []paramChange) string {
 			parts = append(parts, fmt.Sprintf("and %d more", len(c)-shown))
 			break
 		}
-		parts = append(parts, fmt.Sprintf("%s %s → %s %s", p.spec.Key, strconv.FormatFloat(p.from, 'g', -1, 64),
+		parts = append(parts, fmt.Sprintf("%s %s → %s %s", p.spec.Name, strconv.FormatFloat(p.from, 'g', -1, 64),
 			strconv.FormatFloat(p.to, 'g', -1, 64), p.spec.Unit))
 	}
 	return strings.Join(parts, ", ")

@@ -28,7 +28,7 @@ func TestFigureWritesFiles(t *testing.T) {
 	if w := attr(data, "width"); w != "16cm" || attr(data, "height") != "11cm" {
 		t.Errorf("default size %s × %s", w, attr(data, "height"))
 	}
-	for _, want := range []string{"resistance_mmhg_s_per_ml 0.85 → 1.7", "without the --set changes", "Changed readouts"} {
+	for _, want := range []string{"Systemic resistance 0.85 → 1.7", "without the --set changes", "Changed readouts"} {
 		if !bytes.Contains(data, []byte(want)) {
 			t.Errorf("SVG lacks %q", want)
 		}
@@ -93,8 +93,8 @@ func TestFigureBaseline(t *testing.T) {
 		args []string
 		want []string
 	}{
-		{[]string{"--baseline", base}, []string{"heart_rate_bpm 55 → 70 bpm", "scenario calm (calm.yaml)", "Changed readouts"}},
-		{[]string{"--scenario", withBase}, []string{"ees_mmhg_per_ml 2.5 → 1.5", "baseline of scenario study"}},
+		{[]string{"--baseline", base}, []string{"Heart rate 55 → 70 bpm", "scenario calm (calm.yaml)", "Changed readouts"}},
+		{[]string{"--scenario", withBase}, []string{"Ees 2.5 → 1.5", "baseline of scenario study"}},
 		{[]string{"--preset", "hfpef"}, []string{"Scenario hfpef", ">Readouts<", ">Loop<"}},
 		{[]string{"--set", "heart_rate_bpm=70"}, []string{"Scenario normal", ">Readouts<"}}, // a --set to the same value changes nothing
 		{[]string{"--set", "heart_rate_bpm=90", "--title", "Tachycardia"}, []string{">Tachycardia<", "What-if loop"}},

@@ -3,6 +3,7 @@ package figure
 import (
 	"bytes"
 	"encoding/xml"
+	"gonum.org/v1/plot/vg"
 	"image/png"
 	"math"
 	"strings"
@@ -241,6 +242,19 @@ func TestTableFit(t *testing.T) {
 	tab.fit(tab.width(), h*0.5)
 	if tab.size != minTableScale*tableSize || tab.height() > h*0.5 || !strings.HasPrefix(tab.note, "… and ") {
 		t.Errorf("size %v, height %v of %v, note %q", tab.size, tab.height(), h*0.5, tab.note)
+	}
+}
+
+// A table too wide for its box shrinks its text until it fits, however narrow
+// the box (a small figure in pixels at a high dpi once overflowed the page).
+func TestTableFitsWidth(t *testing.T) {
+	for _, f := range []float64{0.9, 0.6, 0.4} {
+		tab := (&Figure{WhatIf: afterload(t).WhatIf}).table()
+		w := tab.width() * vg.Length(f)
+		tab.fit(w, 10*tab.height())
+		if got := tab.width(); got > w*1.0001 {
+			t.Errorf("box %.0f%% of the natural width: table is %v wide, box %v", 100*f, got, w)
+		}
 	}
 }
 

@@ -37,11 +37,14 @@ type table struct {
 const minTableScale = 0.7
 
 // fit shrinks the table's text, and then leaves out its last rows with a
-// note, so that it fits a box of width w and height h.
+// note, so that it fits a box of width w and height h. The width always fits
+// (rows cannot make a table narrower); for the height the text shrinks to
+// minTableScale at most before rows go.
 func (t *table) fit(w, h vg.Length) {
-	scale := min(1, float64(w/t.width()), float64(h/t.height()))
-	if scale < 1 {
-		t.setSize(vg.Length(max(scale, minTableScale)) * tableSize)
+	widthScale := min(1, float64(w/t.width()))
+	heightScale := max(minTableScale, min(1, float64(h/t.height())))
+	if scale := min(widthScale, heightScale); scale < 1 {
+		t.setSize(vg.Length(scale) * tableSize)
 	}
 	for len(t.rows) > 0 && t.height() > h {
 		hidden := 1

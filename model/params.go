@@ -28,6 +28,7 @@ type Params struct {
 // range and meaning.
 type Spec struct {
 	Key     string
+	Name    string // short name for headings and screens, e.g. "Heart rate"
 	Unit    string
 	Min     float64
 	Max     float64
@@ -45,31 +46,31 @@ func (s Spec) Set(p *Params, v float64) { *s.field(p) = v }
 // first come first. The ranges cover disease and exercise while keeping the
 // solver in the region where a periodic steady state exists.
 var Specs = []Spec{
-	{"filling_pressure_mmhg", "mmHg", 1, 40, "left-atrial filling pressure (preload lever)",
+	{"filling_pressure_mmhg", "Filling pressure", "mmHg", 1, 40, "left-atrial filling pressure (preload lever)",
 		func(p *Params) *float64 { return &p.FillingPressure }},
-	{"ees_mmhg_per_ml", "mmHg/mL", 0.2, 10, "end-systolic elastance, slope of the ESPVR (contractility)",
+	{"ees_mmhg_per_ml", "Ees", "mmHg/mL", 0.2, 10, "end-systolic elastance, slope of the ESPVR (contractility)",
 		func(p *Params) *float64 { return &p.Ees }},
-	{"resistance_mmhg_s_per_ml", "mmHg·s/mL", 0.2, 5, "systemic peripheral resistance R of the Windkessel",
+	{"resistance_mmhg_s_per_ml", "Systemic resistance", "mmHg·s/mL", 0.2, 5, "systemic peripheral resistance R of the Windkessel",
 		func(p *Params) *float64 { return &p.Resistance }},
-	{"heart_rate_bpm", "bpm", 30, 180, "heart rate; systolic duration scales with the beat period",
+	{"heart_rate_bpm", "Heart rate", "bpm", 30, 180, "heart rate; systolic duration scales with the beat period",
 		func(p *Params) *float64 { return &p.HeartRate }},
-	{"v0_ml", "mL", -30, 120, "volume intercept of the ESPVR and origin of the EDPVR",
+	{"v0_ml", "V0", "mL", -30, 120, "volume intercept of the ESPVR and origin of the EDPVR",
 		func(p *Params) *float64 { return &p.V0 }},
-	{"edpvr_a_mmhg", "mmHg", 0.01, 10, "EDPVR scale A in A·(exp(B·(V−V0)) − 1)",
+	{"edpvr_a_mmhg", "EDPVR A", "mmHg", 0.01, 10, "EDPVR scale A in A·(exp(B·(V−V0)) − 1)",
 		func(p *Params) *float64 { return &p.EdpvrA }},
-	{"edpvr_b_per_ml", "1/mL", 0.005, 0.2, "EDPVR stiffness B in A·(exp(B·(V−V0)) − 1)",
+	{"edpvr_b_per_ml", "EDPVR B", "1/mL", 0.005, 0.2, "EDPVR stiffness B in A·(exp(B·(V−V0)) − 1)",
 		func(p *Params) *float64 { return &p.EdpvrB }},
-	{"compliance_ml_per_mmhg", "mL/mmHg", 0.2, 5, "arterial compliance C of the Windkessel",
+	{"compliance_ml_per_mmhg", "Arterial compliance", "mL/mmHg", 0.2, 5, "arterial compliance C of the Windkessel",
 		func(p *Params) *float64 { return &p.Compliance }},
-	{"zc_mmhg_s_per_ml", "mmHg·s/mL", 0, 0.5, "aortic characteristic impedance Zc (0 gives a two-element Windkessel)",
+	{"zc_mmhg_s_per_ml", "Zc", "mmHg·s/mL", 0, 0.5, "aortic characteristic impedance Zc (0 gives a two-element Windkessel)",
 		func(p *Params) *float64 { return &p.Zc }},
-	{"venous_pressure_mmhg", "mmHg", 0, 25, "venous pressure the Windkessel drains to",
+	{"venous_pressure_mmhg", "Venous pressure", "mmHg", 0, 25, "venous pressure the Windkessel drains to",
 		func(p *Params) *float64 { return &p.VenousPressure }},
-	{"wall_volume_ml", "mL", 50, 500, "LV wall (myocardial) volume, for wall stress",
+	{"wall_volume_ml", "Wall volume", "mL", 50, 500, "LV wall (myocardial) volume, for wall stress",
 		func(p *Params) *float64 { return &p.WallVolume }},
-	{"mitral_resistance_mmhg_s_per_ml", "mmHg·s/mL", 0.001, 0.5, "resistance of the open mitral valve",
+	{"mitral_resistance_mmhg_s_per_ml", "Mitral valve resistance", "mmHg·s/mL", 0.001, 0.5, "resistance of the open mitral valve",
 		func(p *Params) *float64 { return &p.MitralResistance }},
-	{"aortic_resistance_mmhg_s_per_ml", "mmHg·s/mL", 0.001, 1, "resistance of the open aortic valve",
+	{"aortic_resistance_mmhg_s_per_ml", "Aortic valve resistance", "mmHg·s/mL", 0.001, 1, "resistance of the open aortic valve",
 		func(p *Params) *float64 { return &p.AorticResistance }},
 }
 
