@@ -26,6 +26,8 @@ func (m *Model) View() string {
 		body = m.overlay(m.renderHelp())
 	case modePicker:
 		body = m.overlay(m.renderPicker())
+	case modeProtocols:
+		body = m.overlay(m.renderProtocols())
 	default:
 		body = m.renderBody()
 	}
@@ -69,8 +71,15 @@ func trimLines(s string) string {
 // renderBody is the main view with the readout and lever panels.
 func (m *Model) renderBody() string {
 	l := m.lay
-	mainLines := strings.Split(m.views[m.cur].Render(&m.st), "\n")
-	side := m.readouts.Render(&m.st)
+	v := m.views[m.cur]
+	mainLines := strings.Split(v.Render(&m.st), "\n")
+	src := steadySource(&m.st)
+	if rv, ok := v.(readoutView); ok {
+		if s, ok := rv.readouts(&m.st); ok {
+			src = s
+		}
+	}
+	side := m.readouts.Render(src)
 	if !l.strip {
 		side += "\n" + strings.Repeat(" ", l.sideW) + "\n" + m.levers.Render(&m.st, m.sel)
 	}
@@ -129,7 +138,7 @@ func (m *Model) topBar() string {
 func (m *Model) statusLine() string {
 	s := m.styles
 	if m.mode == modePrompt {
-		return padRight(" "+m.prompt.View()+s.Dim.Render("   Enter "+map[bool]string{true: "saves", false: "opens"}[m.saving]+" · Esc cancels"), m.w)
+		return padRight(" "+m.prompt.View()+s.Dim.Render("   Enter "+promptVerb[m.promptFor]+" · Esc cancels"), m.w)
 	}
 	if m.statusErr {
 		return padRight(s.Error.Render(" ✗ "+m.status), m.w)
@@ -137,7 +146,12 @@ func (m *Model) statusLine() string {
 	return padRight(s.Status.Render(" "+m.status), m.w)
 }
 
-// keyLine is the short help.
+// keyLine is the short help: the levers' keys, or playback's in the
+// protocol view.
 func (m *Model) keyLine() string {
-	return padRight(" "+m.help.ShortHelpView(m.keys.ShortHelp()), m.w)
+	keys := m.keys.ShortHelp()
+	if m.views[m.cur] == view(m.play) {
+		keys = m.keys.PlayHelp()
+	}
+	return padRight(" "+m.help.ShortHelpView(keys), m.w)
 }
