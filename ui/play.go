@@ -29,7 +29,7 @@ func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
 		err = r.next()
 	}
 	if err != nil {
-		m.setError("Not played: " + err.Error())
+		m.setError(err.Error()) // it names the protocol file first
 		return nil
 	}
 	m.runs++
@@ -48,7 +48,7 @@ func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
 func (m *Model) playFile(path string) tea.Cmd {
 	pr, err := presets.LoadProtocol(path)
 	if err != nil {
-		m.setError("Not played: " + err.Error())
+		m.setError(err.Error())
 		return nil
 	}
 	m.lastProtocolPath = path

@@ -510,3 +510,31 @@ func TestDeltaAgreesWithPercent(t *testing.T) {
 		}
 	}
 }
+
+// At 80×24 an error too long for two lines takes a third, from the body,
+// so the range at its end is on screen; the frame keeps its 24 lines.
+func TestLongErrorFitsNarrowScreen(t *testing.T) {
+	m := newTestModel(t, "normal", termenv.Ascii)
+	withTicker(m)
+	press(m, tea.WindowSizeMsg{Width: 80, Height: 24})
+	for range 5 {
+		keys(m, "K")
+	}
+	keys(m, "P", "up", "up", "enter") // volume-challenge: 35 × 1.5 mmHg is out of range
+	screen := m.View()
+	lines := strings.Split(screen, "\n")
+	if len(lines) != 24 {
+		t.Fatalf("%d lines", len(lines))
+	}
+	joined := strings.Join(strings.Fields(strings.Join(lines[len(lines)-3:], " ")), " ")
+	for _, w := range []string{"protocol volume-challenge:20: steps[2].ramp.filling_pressure_mmhg:", "allowed 1 to 40 mmHg"} {
+		if !strings.Contains(joined, w) {
+			t.Errorf("the error's last lines lack %q:\n%s", w, screen)
+		}
+	}
+	for i, l := range lines {
+		if n := len([]rune(l)); n > 80 {
+			t.Errorf("line %d is %d wide", i, n)
+		}
+	}
+}

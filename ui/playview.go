@@ -183,10 +183,14 @@ func (v *playView) header() []string {
 	lines := []string{
 		spread(v.s, r.pr.Name, v.stateText(v.w >= 60), v.w),
 		fmt.Sprintf("beat %d of %d · %s · t %s s", b.Index+1, r.total(), r.plan.Label(b.Index), fmtNum(b.TStart, 2)),
-		v.leverText(true),
+		"",
 	}
-	if lipgloss.Width(lines[2]) > v.w {
-		lines[2] = v.leverText(false)
+	// The levers as fully as they fit: full names, short names, no units,
+	// values only.
+	for level := range 4 {
+		if lines[2] = v.leverText(level); lipgloss.Width(lines[2]) <= v.w {
+			break
+		}
 	}
 	for i, l := range lines {
 		lines[i] = padRight(ansi.Truncate(l, v.w, "…"), v.w)
@@ -220,10 +224,11 @@ func (v *playView) stateText(long bool) string {
 	return v.s.Dim.Render("paused")
 }
 
-// leverText lists the levers the protocol moves, at this beat and (in
-// brackets) at the start; long uses the levers' full names. A protocol that
-// moves none is described instead.
-func (v *playView) leverText(long bool) string {
+// leverText lists the levers the protocol moves, at this beat and at the
+// start of the run, in one of four levels of detail: 0 with the levers'
+// full names and units, 1 with short names, 2 without units, 3 without the
+// start. A protocol that moves none is described instead.
+func (v *playView) leverText(level int) string {
 	r := v.run
 	keys := r.pr.Levers()
 	if len(keys) == 0 {
@@ -237,13 +242,20 @@ func (v *playView) leverText(long bool) string {
 		for _, l := range model.Levers {
 			if l.Key == k {
 				name, dec = l.Short, l.Decimals+1
-				if long {
+				if level == 0 {
 					name = l.Name
 				}
 			}
 		}
 		now, start := fmtLever(spec.Get(p), dec), fmtLever(spec.Get(p0), dec)
-		parts = append(parts, fmt.Sprintf("%s %s %s", name, now, spec.Unit)+v.s.Dim.Render(" (from "+start+")"))
+		switch level {
+		case 0, 1:
+			parts = append(parts, name+" "+now+" "+spec.Unit+v.s.Dim.Render(" (from "+start+")"))
+		case 2:
+			parts = append(parts, name+" "+now+v.s.Dim.Render(" ("+start+")"))
+		default:
+			parts = append(parts, name+" "+now)
+		}
 	}
 	return strings.Join(parts, v.s.Dim.Render(" · "))
 }

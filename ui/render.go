@@ -31,28 +31,50 @@ func (m *Model) View() string {
 	default:
 		body = m.renderBody()
 	}
-	return trimLines(m.topBar() + "\n" + body + "\n" + m.footer())
+	foot := m.footer()
+	if extra := strings.Count(foot, "\n") - 1; extra > 0 {
+		// An error too long for two lines takes the body's last line.
+		body = body[:nthLastNewline(body, extra)]
+	}
+	return trimLines(m.topBar() + "\n" + body + "\n" + foot)
+}
+
+// nthLastNewline is the index of the n-th newline from the end of s.
+func nthLastNewline(s string, n int) int {
+	i := len(s)
+	for ; n > 0 && i > 0; n-- {
+		i = strings.LastIndexByte(s[:i], '\n')
+	}
+	return max(i, 0)
 }
 
 // footer is the status line and the key line. A status too long for one
-// line (an error naming a file, a key and a range) takes the key line too.
+// line (an error naming a file, a key and a range) takes the key line too,
+// and an error too long for two lines a third.
 func (m *Model) footer() string {
 	if m.mode != modePrompt && ansi.StringWidth(m.status)+3 > m.w {
 		st := m.styles.Status
 		prefix := " "
+		room := 2
 		if m.statusErr {
-			st, prefix = m.styles.Error, " ✗ "
+			st, prefix, room = m.styles.Error, " ✗ ", 3
 		}
-		wrapped := ansi.Wrap(prefix+m.status, m.w, " /")
-		lines := strings.SplitN(wrapped, "\n", 3)
-		if len(lines) == 3 {
-			lines = lines[:2]
-			lines[1] = ansi.Truncate(lines[1], m.w-1, "") + "…"
+		wrapped := ansi.Wrap(prefix+m.status, m.w-3, " /") // room for the indent of the lines after the first
+		lines := strings.Split(wrapped, "\n")
+		if len(lines) > room {
+			lines = lines[:room]
+			lines[room-1] = ansi.Truncate(lines[room-1], m.w-4, "") + "…"
 		}
 		for len(lines) < 2 {
 			lines = append(lines, "")
 		}
-		return st.Render(padRight(lines[0], m.w)) + "\n" + st.Render(padRight("   "+strings.TrimLeft(lines[1], " "), m.w))
+		for i := range lines {
+			if i > 0 {
+				lines[i] = "   " + strings.TrimLeft(lines[i], " ")
+			}
+			lines[i] = st.Render(padRight(lines[i], m.w))
+		}
+		return strings.Join(lines, "\n")
 	}
 	return m.statusLine() + "\n" + m.keyLine()
 }
