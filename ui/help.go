@@ -68,8 +68,9 @@ func (m *Model) renderHelp() string {
 	cues := s.Dim.Render("Readouts: ▲ above, ▼ below the resting adult's normal range.")
 	if roomy {
 		cues = s.Dim.Render("PV plane: ━ the steady loop now, ┄ the baseline; ESPVR, EDPVR, Ea line.\n" +
-			"Protocol: ━ the beat on screen, ┄ the beats before it, o their end-systolic\n" +
-			"points; the ESPVR fitted to them (fit) beside the model's own (┄ ESPVR).\n" +
+			"Protocol: ━ the beat on screen; the beats before it grey (dotted without\n" +
+			"colour); o end-systolic points; the ESPVR fitted to them (fit), the model's\n" +
+			"own dotted (ESPVR).\n" +
 			"Readouts: ▲ above, ▼ below the resting adult's normal range;\n" +
 			"Δ and % are changes against the baseline (in a protocol, its starting beat).")
 	}

@@ -348,7 +348,7 @@ func (v *playView) renderIntro() string {
 	}
 	lines = append(lines, "")
 	for _, l := range wrap("A protocol changes the levers beat by beat. Its loops are drawn as a family " +
-		"with their end-systolic points and, while only preload or afterload changes, the ESPVR fitted to them.") {
+		"with their end-systolic points and, when the protocol leaves Ees and V0 alone, the ESPVR fitted to them.") {
 		lines = append(lines, " "+s.Dim.Render(l))
 	}
 	for i := range lines {
