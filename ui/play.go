@@ -169,9 +169,12 @@ func (m *Model) playKey(msg tea.KeyMsg) (cmd tea.Cmd, ok bool) {
 		return m.nextTick(), true
 	case key.Matches(msg, k.StepFwd):
 		v.pause()
-		if v.atEnd() {
+		switch {
+		case v.atEnd() && r.err != nil:
+			m.setError(fmt.Sprintf("%s stopped: %v.", r.pr.Name, r.err))
+		case v.atEnd():
 			m.setStatus(m.endText())
-		} else if m.advance() && !v.atEnd() {
+		case m.advance() && !v.atEnd():
 			m.setStatus(fmt.Sprintf("Beat %d of %d. . steps on, , back, Space plays.", v.cur+1, r.total()))
 		}
 	case key.Matches(msg, k.StepBack):
