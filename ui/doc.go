@@ -7,6 +7,12 @@
 // time, always for the latest lever setting. The main area shows one of
 // several views (see view.go); the readout and lever panels stay beside it.
 //
+// The Protocol view plays a study protocol from the levers now, beat by
+// beat: ticks tagged with the run's id each compute one transient beat on
+// the UI goroutine (see play.go), the loops are drawn as a family with
+// their end-systolic points and the ESPVR fitted so far, and the readouts
+// show the beat on screen against the run's starting steady beat.
+//
 // It is a model for research and education planning, not for treating
 // patients.
 package ui

@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"fmt"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/help"
@@ -24,42 +23,56 @@ func newHelp(s *Styles) help.Model {
 	return h
 }
 
-// helpGroups names the columns of KeyMap.FullHelp.
-var helpGroups = []string{"Levers", "Baseline and history", "Scenario and views", "This screen"}
+// helpGroups names the groups of KeyMap.FullHelp.
+var helpGroups = []string{"Levers", "Baseline and history", "Protocol playback", "Scenario and views", "This screen"}
+
+// helpColumns stacks the groups of KeyMap.FullHelp in three columns, so the
+// overlay fits 80 cells and 24 lines.
+var helpColumns = [][]int{{0, 3}, {1, 4}, {2}}
 
 // renderHelp is the help overlay: every key, what the screen's cues mean,
 // and the caution. A tall window gets room between the parts.
 func (m *Model) renderHelp() string {
 	s := m.styles
+	groups := m.keys.FullHelp()
 	var cols []string
-	for i, g := range m.keys.FullHelp() {
+	for c, gs := range helpColumns {
 		var b strings.Builder
-		b.WriteString(s.Heading.Render(helpGroups[i]))
-		for _, k := range g {
-			h := k.Help()
-			b.WriteString("\n" + s.Key.Render(fmt.Sprintf("%-10s", h.Key)) + " " + s.Desc.Render(h.Desc))
+		for n, g := range gs {
+			if n > 0 {
+				b.WriteString("\n\n")
+			}
+			b.WriteString(s.Heading.Render(helpGroups[g]))
+			kw := 0
+			for _, k := range groups[g] {
+				kw = max(kw, lipgloss.Width(k.Help().Key))
+			}
+			for _, k := range groups[g] {
+				h := k.Help()
+				b.WriteString("\n" + s.Key.Render(h.Key+strings.Repeat(" ", kw-lipgloss.Width(h.Key))) + " " + s.Desc.Render(h.Desc))
+			}
 		}
-		cols = append(cols, b.String())
+		if c < len(helpColumns)-1 {
+			cols = append(cols, pad(s, b.String()))
+		} else {
+			cols = append(cols, b.String())
+		}
 	}
 	roomy := m.h >= 34
 	gap := "\n"
 	if roomy {
 		gap = "\n\n"
 	}
-	// Four columns of key groups fit wide windows, two fit 80 cells.
-	var keys string
-	if m.w >= 120 {
-		keys = lipgloss.JoinHorizontal(lipgloss.Top, pad(s, cols[0]), pad(s, cols[1]), pad(s, cols[2]), cols[3])
-	} else {
-		keys = lipgloss.JoinHorizontal(lipgloss.Top, pad(s, cols[0]), cols[1]) + gap +
-			lipgloss.JoinHorizontal(lipgloss.Top, pad(s, cols[2]), cols[3])
-	}
+	keys := lipgloss.JoinHorizontal(lipgloss.Top, cols...)
 	title := s.Heading.Render("Keys of the explorer") + s.Dim.Render("  (? or Esc closes)")
 	cues := s.Dim.Render("Readouts: ▲ above, ▼ below the resting adult's normal range.")
 	if roomy {
 		cues = s.Dim.Render("PV plane: ━ the steady loop now, ┄ the baseline; ESPVR, EDPVR, Ea line.\n" +
+			"Protocol: ━ the beat on screen; the beats before it grey (dotted without\n" +
+			"colour); o end-systolic points; the ESPVR fitted to them (fit), the model's\n" +
+			"own dotted (ESPVR).\n" +
 			"Readouts: ▲ above, ▼ below the resting adult's normal range;\n" +
-			"Δ and % are changes against the baseline.")
+			"Δ and % are changes against the baseline (in a protocol, its starting beat).")
 	}
 	body := title + gap + keys + "\n\n" + cues + gap + s.Error.Render(Caution)
 	return s.Box.Render(body)

@@ -30,20 +30,36 @@ func newPrompt(s *Styles) textinput.Model {
 	return t
 }
 
-// openPrompt asks for a path to save to (save) or open from.
-func (m *Model) openPrompt(save bool) tea.Cmd {
-	m.saving = save
+// promptKind is what the path prompt is for.
+type promptKind int
+
+const (
+	promptSave     promptKind = iota // save the scenario
+	promptOpen                       // open a scenario
+	promptProtocol                   // play a protocol file
+)
+
+// promptVerb is what Enter does in the prompt, for its hint.
+var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens", promptProtocol: "plays"}
+
+// openPrompt asks for a path to save to, open from or play.
+func (m *Model) openPrompt(kind promptKind) tea.Cmd {
+	m.promptFor = kind
 	m.prompt.Reset()
-	if save {
+	switch kind {
+	case promptSave:
 		m.prompt.Prompt = "Save scenario to: "
 		v := m.lastPath
 		if v == "" {
 			v = m.st.name + ".yaml"
 		}
 		m.prompt.SetValue(v)
-	} else {
+	case promptOpen:
 		m.prompt.Prompt = "Open scenario: "
 		m.prompt.SetValue(m.lastPath)
+	case promptProtocol:
+		m.prompt.Prompt = "Play protocol file: "
+		m.prompt.SetValue(m.lastProtocolPath)
 	}
 	m.prompt.CursorEnd()
 	m.mode = modePrompt
@@ -68,10 +84,13 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 			m.setError("No path given: nothing saved or opened.")
 			return nil
 		}
-		if m.saving {
+		switch m.promptFor {
+		case promptSave:
 			m.save(path, false)
-		} else {
+		case promptOpen:
 			m.open(path)
+		case promptProtocol:
+			return m.playFile(path)
 		}
 		return nil
 	}

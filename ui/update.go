@@ -18,6 +18,8 @@ func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case solvedMsg:
 		return m, m.solved(msg)
+	case playTickMsg:
+		return m, m.playTick(msg)
 	case tea.KeyMsg:
 		// Esc and a key typed quickly after it (or sent together over a
 		// slow link) arrive as Alt and the key: take them as both.
@@ -53,6 +55,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return m.promptKey(msg)
 	case modeConfirm:
 		return m.confirmKey(msg)
+	case modeProtocols:
+		return m.protocolsKey(msg)
 	}
 	k := m.keys
 	switch {
@@ -87,10 +91,12 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		m.setStatus("Axes fitted to the loops again.")
 	case key.Matches(msg, k.Preset):
 		m.openPicker()
+	case key.Matches(msg, k.Protocol):
+		m.openProtocols()
 	case key.Matches(msg, k.Save):
-		return m.openPrompt(true)
+		return m.openPrompt(promptSave)
 	case key.Matches(msg, k.Open):
-		return m.openPrompt(false)
+		return m.openPrompt(promptOpen)
 	case key.Matches(msg, k.NextView):
 		m.showView(m.cur + 1)
 	case key.Matches(msg, k.GoView):
@@ -100,6 +106,9 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 			m.setError(fmt.Sprintf("There is no view %c: views 1 to %d.", msg.Runes[0], len(m.views)))
 		}
 	default:
+		if cmd, ok := m.playKey(msg); ok {
+			return cmd
+		}
 		return m.views[m.cur].Update(msg, &m.st)
 	}
 	return nil
@@ -114,10 +123,16 @@ func (m *Model) selectLever(i int) {
 	m.setStatus(fmt.Sprintf("%s: %s, %s (%s).", l.Name, s.Meaning, l.Format(s.Get(m.st.target))+" "+s.Unit, s.RangeText()))
 }
 
-// showView puts view i on screen, wrapping around.
+// showView puts view i on screen, wrapping around. A protocol playing in
+// the view that leaves pauses.
 func (m *Model) showView(i int) {
-	m.cur = (i%len(m.views) + len(m.views)) % len(m.views)
-	m.setStatus("View: " + m.views[m.cur].Name() + ".")
+	i = (i%len(m.views) + len(m.views)) % len(m.views)
+	note := ""
+	if i != m.cur && m.views[m.cur] == view(m.play) {
+		note = m.leavePlay()
+	}
+	m.cur = i
+	m.setStatus("View: " + m.views[m.cur].Name() + "." + note)
 }
 
 // nudge moves the selected lever one step and asks for a solve. A step past
