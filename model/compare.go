@@ -1,7 +1,5 @@
 package model
 
-import "math"
-
 // MetricChange is the change of one metric from a baseline beat to a what-if.
 type MetricChange struct {
 	Spec     MetricSpec
@@ -17,11 +15,8 @@ func CompareMetrics(base, whatIf *Metrics) []MetricChange {
 	out := make([]MetricChange, len(MetricSpecs))
 	for i, s := range MetricSpecs {
 		b, w := s.Get(base), s.Get(whatIf)
-		c := MetricChange{Spec: s, Baseline: b, WhatIf: w, Delta: w - b, Percent: math.NaN()}
-		if b != 0 && finite(b) && finite(w) {
-			c.Percent = 100 * c.Delta / math.Abs(b)
-		}
-		out[i] = c
+		d, pct := Change(w, b)
+		out[i] = MetricChange{Spec: s, Baseline: b, WhatIf: w, Delta: d, Percent: pct}
 	}
 	return out
 }

@@ -52,11 +52,11 @@ func (r NormalRange) Classify(v float64) int {
 }
 
 // Change is the change of a value from its baseline: delta = now − base and
-// percent = 100·delta/|base|. The percentage is NaN when the baseline is 0;
-// both are NaN when either value is.
+// percent = 100·delta/|base|. The percentage is NaN when the baseline is 0 or
+// either value is not finite; delta is NaN when either value is.
 func Change(now, base float64) (delta, percent float64) {
 	delta = now - base
-	if base == 0 || math.IsNaN(delta) {
+	if base == 0 || !finite(delta) {
 		return delta, math.NaN()
 	}
 	return delta, 100 * delta / math.Abs(base)
