@@ -4,11 +4,11 @@ package cli
 
 import (
 	"os"
-	"os/signal"
 	"path/filepath"
 	"strings"
-	"syscall"
 	"testing"
+
+	"pvcouple/internal/fsizelimit"
 )
 
 // A run whose --samples file cannot be written to the end leaves the old
@@ -20,21 +20,11 @@ func TestFailedSamplesWriteLeavesOldFile(t *testing.T) {
 	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	signal.Ignore(syscall.SIGXFSZ)
-	defer signal.Reset(syscall.SIGXFSZ)
-	var old syscall.Rlimit
-	if err := syscall.Getrlimit(syscall.RLIMIT_FSIZE, &old); err != nil {
-		t.Skip(err)
-	}
-	limit := old
-	limit.Cur = 100 << 10 // bytes: a quarter of the run's samples
-	if err := syscall.Setrlimit(syscall.RLIMIT_FSIZE, &limit); err != nil {
-		t.Skip(err)
-	}
-	code, out, errs := runCLI(t, "protocol", "run", "preload-reduction", "--samples", path, "--force")
-	if err := syscall.Setrlimit(syscall.RLIMIT_FSIZE, &old); err != nil {
-		t.Fatal(err)
-	}
+	var code int
+	var out, errs string
+	fsizelimit.Run(t, 100<<10, func() { // bytes: a quarter of the run's samples
+		code, out, errs = runCLI(t, "protocol", "run", "preload-reduction", "--samples", path, "--force")
+	})
 	if code != 1 || out != "" || !strings.Contains(errs, "--samples") || !strings.Contains(errs, "run.csv") {
 		t.Errorf("exit %d, stdout %d bytes, stderr %q", code, len(out), errs)
 	}

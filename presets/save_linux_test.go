@@ -4,15 +4,15 @@ package presets
 
 import (
 	"os"
-	"os/signal"
 	"path/filepath"
-	"syscall"
 	"testing"
+
+	"pvcouple/internal/fsizelimit"
 )
 
 // A save that fails part-way leaves the old file as it was. The failure is
-// real: a file-size limit (RLIMIT_FSIZE) makes the write of the new content
-// fail with EFBIG, which works even when the tests run as root.
+// real: a file-size limit makes the write of the new content fail with
+// EFBIG, which works even when the tests run as root.
 func TestFailedSaveLeavesOldFile(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "s.yaml")
 	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
@@ -20,21 +20,8 @@ func TestFailedSaveLeavesOldFile(t *testing.T) {
 	}
 	sc, _ := Get("normal")
 
-	signal.Ignore(syscall.SIGXFSZ)
-	defer signal.Reset(syscall.SIGXFSZ)
-	var old syscall.Rlimit
-	if err := syscall.Getrlimit(syscall.RLIMIT_FSIZE, &old); err != nil {
-		t.Skip(err)
-	}
-	limit := old
-	limit.Cur = 64 // bytes: less than any scenario
-	if err := syscall.Setrlimit(syscall.RLIMIT_FSIZE, &limit); err != nil {
-		t.Skip(err)
-	}
-	err := SaveScenario(path, sc, true)
-	if rerr := syscall.Setrlimit(syscall.RLIMIT_FSIZE, &old); rerr != nil {
-		t.Fatal(rerr)
-	}
+	var err error
+	fsizelimit.Run(t, 64, func() { err = SaveScenario(path, sc, true) }) // 64 bytes: less than any scenario
 	if err == nil {
 		t.Fatal("save beyond the file-size limit succeeded")
 	}
