@@ -25,7 +25,8 @@ func newHelp(s *Styles) help.Model {
 }
 
 // helpGroups names the columns of KeyMap.FullHelp.
-var helpGroups = []string{"Levers", "Baseline and history", "Scenario and views", "This screen"}
+var helpGroups = []string{"Levers", "Baseline and history", "Scenario and views", "This screen",
+	"Recording and map"}
 
 // renderHelp is the help overlay: every key, what the screen's cues mean,
 // and the caution. A tall window gets room between the parts.
@@ -46,22 +47,23 @@ func (m *Model) renderHelp() string {
 	if roomy {
 		gap = "\n\n"
 	}
-	// Four columns of key groups fit wide windows, two fit 80 cells.
-	var keys string
-	if m.w >= 120 {
-		keys = lipgloss.JoinHorizontal(lipgloss.Top, pad(s, cols[0]), pad(s, cols[1]), pad(s, cols[2]), cols[3])
-	} else {
-		keys = lipgloss.JoinHorizontal(lipgloss.Top, pad(s, cols[0]), cols[1]) + gap +
-			lipgloss.JoinHorizontal(lipgloss.Top, pad(s, cols[2]), cols[3])
-	}
+	// As many columns of key groups in a row as fit the box.
+	keys := packColumns(s, cols, m.w-helpBoxFrame, gap)
 	title := s.Heading.Render("Keys of the explorer") + s.Dim.Render("  (? or Esc closes)")
 	cues := s.Dim.Render("Readouts: ▲ above, ▼ below the resting adult's normal range.")
 	if roomy {
 		cues = s.Dim.Render("PV plane: ━ the steady loop now, ┄ the baseline; ESPVR, EDPVR, Ea line.\n" +
 			"Readouts: ▲ above, ▼ below the resting adult's normal range;\n" +
-			"Δ and % are changes against the baseline.")
+			"Δ and % are changes against the baseline (against the recording when one is open).")
 	}
+	if roomy {
+		cues += "\n" + s.Dim.Render(recordingCues)
+	}
+	cues += "\n" + s.Dim.Render(fitCue)
 	body := title + gap + keys + "\n\n" + cues + gap + s.Error.Render(Caution)
+	if lipgloss.Height(body)+2 > m.h-3 { // too tall for the window: the cues go first
+		body = title + gap + keys + gap + s.Error.Render(Caution)
+	}
 	return s.Box.Render(body)
 }
 

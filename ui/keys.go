@@ -22,6 +22,10 @@ type KeyMap struct {
 
 	// Keys of the prompts, pickers and overlays.
 	Confirm, Cancel key.Binding
+
+	// Recording overlay and coupling map (see overlay.go, mapview.go).
+	OpenRecording, ClearRecording key.Binding // overlay a recorded loop on the PV plane, and remove it
+	MapMetric, MapX, MapY         key.Binding // the map view's metric and levers (next; shifted: previous)
 }
 
 // DefaultKeyMap returns the explorer's keys.
@@ -47,6 +51,13 @@ func DefaultKeyMap() KeyMap {
 		Quit:     key.NewBinding(key.WithKeys("q", "ctrl+c"), key.WithHelp("q/^C", "quit")),
 		Confirm:  key.NewBinding(key.WithKeys("enter"), key.WithHelp("Enter", "confirm")),
 		Cancel:   key.NewBinding(key.WithKeys("esc"), key.WithHelp("Esc", "cancel/close")),
+
+		// Recording overlay and coupling map.
+		OpenRecording:  key.NewBinding(key.WithKeys("O"), key.WithHelp("O", "open recording")),
+		ClearRecording: key.NewBinding(key.WithKeys("C"), key.WithHelp("C", "clear recording")),
+		MapMetric:      key.NewBinding(key.WithKeys("m", "M"), key.WithHelp("m/M", "map metric")),
+		MapX:           key.NewBinding(key.WithKeys("x", "X"), key.WithHelp("x/X", "map x lever")),
+		MapY:           key.NewBinding(key.WithKeys("y", "Y"), key.WithHelp("y/Y", "map y lever")),
 	}
 }
 
@@ -62,5 +73,6 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 		{k.Pin, k.Revert, k.Undo, k.Redo, k.Fit},
 		{k.Preset, k.Save, k.Open, k.NextView, k.GoView},
 		{k.Help, k.Cancel, k.Confirm, k.Quit},
+		{k.OpenRecording, k.ClearRecording, k.MapMetric, k.MapX, k.MapY}, // recording and map
 	}
 }

@@ -56,6 +56,11 @@ type Model struct {
 	saving   bool   // the prompt saves (else it opens)
 	lastPath string // the path last saved or opened
 	confirm  string // the path to overwrite when confirmed
+
+	// Recording overlay and background work (overlay.go, follow.go).
+	promptRec   bool   // the prompt opens a recording
+	lastRecPath string // the recording last opened
+	closed      bool   // Close was called: no more background work
 }
 
 // New returns the explorer on scenario sc, solved to steady state (the

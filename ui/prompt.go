@@ -32,7 +32,7 @@ func newPrompt(s *Styles) textinput.Model {
 
 // openPrompt asks for a path to save to (save) or open from.
 func (m *Model) openPrompt(save bool) tea.Cmd {
-	m.saving = save
+	m.saving, m.promptRec = save, false
 	m.prompt.Reset()
 	if save {
 		m.prompt.Prompt = "Save scenario to: "
@@ -68,9 +68,12 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 			m.setError("No path given: nothing saved or opened.")
 			return nil
 		}
-		if m.saving {
+		switch {
+		case m.promptRec:
+			m.openRecording(path)
+		case m.saving:
 			m.save(path, false)
-		} else {
+		default:
 			m.open(path)
 		}
 		return nil

@@ -54,6 +54,7 @@ type readoutPanel struct {
 	wide bool
 
 	cacheShown, cacheBase *model.Steady
+	cacheRec              *recording
 	cache                 string
 }
 
@@ -75,8 +76,12 @@ func (p *readoutPanel) SetSize(w, h int) {
 // columns are the widths of the panel's columns.
 type columns struct{ label, val, unit, base, delta, pct int }
 
-// cols returns the column widths: wide with a base column, narrow without.
-func (p *readoutPanel) cols() columns {
+// cols returns the column widths: wide with a base column, narrow without;
+// with a recording, narrow has a rec column in place of %.
+func (p *readoutPanel) cols(rec bool) columns {
+	if !p.wide && rec {
+		return columns{label: 6, val: 7, unit: 7, base: 7, delta: 6}
+	}
 	if p.wide {
 		return columns{label: 7, val: 8, unit: 8, base: 8, delta: 7, pct: 7}
 	}
@@ -86,16 +91,23 @@ func (p *readoutPanel) cols() columns {
 // Render draws the panel from the loop on screen and the baseline: exactly h
 // lines of width w.
 func (p *readoutPanel) Render(st *state) string {
-	if p.cache != "" && st.shown == p.cacheShown && st.base == p.cacheBase {
+	if p.cache != "" && st.shown == p.cacheShown && st.base == p.cacheBase && st.rec == p.cacheRec {
 		return p.cache
 	}
-	s, c := p.s, p.cols()
+	s, c := p.s, p.cols(st.rec != nil)
 	var lines []string
-	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, "", c.val, "now", c.unit, "unit")
+	title := ""
 	if p.wide {
-		head = fmt.Sprintf(" %-*s%*s  %-*s%*s", c.label, "Readout", c.val, "now", c.unit, "unit", c.base, "base")
+		title = "Readout"
 	}
-	head += fmt.Sprintf(" %*s %*s", c.delta, "Δ", c.pct, "%")
+	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, title, c.val, "now", c.unit, "unit")
+	if c.base > 0 {
+		head += fmt.Sprintf("%*s", c.base, refName(st))
+	}
+	head += fmt.Sprintf(" %*s", c.delta, "Δ")
+	if c.pct > 0 {
+		head += fmt.Sprintf(" %*s", c.pct, "%")
+	}
 	lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 	for _, r := range p.rows {
 		lines = append(lines, p.row(r, st, c))
@@ -104,7 +116,7 @@ func (p *readoutPanel) Render(st *state) string {
 		lines = append(lines, strings.Repeat(" ", p.w))
 	}
 	p.cache = strings.Join(lines[:p.h], "\n")
-	p.cacheShown, p.cacheBase = st.shown, st.base
+	p.cacheShown, p.cacheBase, p.cacheRec = st.shown, st.base, st.rec
 	return p.cache
 }
 
@@ -116,8 +128,8 @@ func (p *readoutPanel) row(r readout, st *state, c columns) string {
 	if st.shown != nil {
 		now = r.spec.Get(&st.shown.Metrics)
 	}
-	if st.base != nil {
-		base = r.spec.Get(&st.base.Metrics)
+	if ref := reference(st); ref != nil {
+		base = r.spec.Get(ref)
 	}
 	label := fmt.Sprintf(" %-*s", c.label, r.spec.Label)
 	val := fmt.Sprintf("%*s", c.val, fmtNum(now, r.decimals))
@@ -131,12 +143,15 @@ func (p *readoutPanel) row(r readout, st *state, c columns) string {
 		}
 	}
 	dim := fmt.Sprintf("%-*s", c.unit, r.spec.Unit)
-	if p.wide {
+	if c.base > 0 {
 		dim += fmt.Sprintf("%*s", c.base, fmtNum(base, r.decimals))
 	}
 	line := label + val + cue + " " + s.Dim.Render(dim)
 	d, pct := model.Change(now, base)
-	line += fmt.Sprintf(" %*s %*s", c.delta, fmtDelta(d, r.decimals), c.pct, fmtPct(pct))
+	line += fmt.Sprintf(" %*s", c.delta, fmtDelta(d, r.decimals))
+	if c.pct > 0 {
+		line += fmt.Sprintf(" %*s", c.pct, fmtPct(pct))
+	}
 	return padRight(line, p.w)
 }
 

@@ -10,8 +10,8 @@ import (
 	"pvcouple/model"
 )
 
-// Update implements tea.Model.
-func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+// update handles one message (Update in follow.go wraps it).
+func (m *Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.resize(msg.Width, msg.Height)
@@ -57,6 +57,7 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 	k := m.keys
 	switch {
 	case key.Matches(msg, k.Quit):
+		m.Close() // no background work outlives the program
 		return tea.Quit
 	case key.Matches(msg, k.Help):
 		m.mode = modeHelp
@@ -99,6 +100,11 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		} else {
 			m.setError(fmt.Sprintf("There is no view %c: views 1 to %d.", msg.Runes[0], len(m.views)))
 		}
+	// Recording overlay (overlay.go).
+	case key.Matches(msg, k.OpenRecording):
+		return m.openRecordingPrompt()
+	case key.Matches(msg, k.ClearRecording):
+		m.clearRecording()
 	default:
 		return m.views[m.cur].Update(msg, &m.st)
 	}

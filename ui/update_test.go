@@ -269,10 +269,12 @@ func TestBaselineUndoRedo(t *testing.T) {
 
 func TestViewsAndFit(t *testing.T) {
 	m := sized(t, "normal")
+	t.Cleanup(m.Close)
+	n := len(m.views) // v goes round every view
 	for _, c := range []struct {
 		key  string
 		want int
-	}{{"v", 1}, {"v", 0}, {"2", 1}, {"1", 0}} {
+	}{{"v", 1}, {"v", 2 % n}, {"2", 1}, {"1", 0}} {
 		keys(m, c.key)
 		if m.cur != c.want {
 			t.Errorf("%s: view %d, want %d", c.key, m.cur, c.want)

@@ -23,5 +23,7 @@ type view interface {
 
 // newViews returns the views in the order of the top bar.
 func newViews(s *Styles) []view {
-	return []view{newPVView(s), newTraceView(s)}
+	return []view{newPVView(s), newTraceView(s),
+		newMapView(s), // the coupling map (mapview.go)
+	}
 }
