@@ -33,7 +33,8 @@ func TestGoldenMap(t *testing.T) {
 	}{
 		{"map_80x24", "normal", 80, 24, []string{"3"}},
 		{"map_120x40", "normal", 120, 40, []string{"3"}},
-		{"map_ef_hr_80x24", "hfref", 80, 24, []string{"3", "m", "m", "m", "m", "X", "Y"}},
+		{"map_ef_hr_80x24", "hfref", 80, 24, []string{"3", "m", "m", "m", "x"}},
+		{"map_ef_fill_zc_120x40", "hfref", 120, 40, []string{"3", "M", "M", "X", "Y"}},
 		{"recording_80x24", "hfref", 80, 24, open(occlusionCSV)},
 		{"recording_120x40", "hfref", 120, 40, open(occlusionCSV)},
 		{"recording_steady_120x40", "normal", 120, 40, append(open(steadyCSV), "K", "K")},

@@ -56,8 +56,8 @@ func newMapStyles(s *Styles) mapStyles {
 			n().Foreground(colour("179", "3")),
 			n().Foreground(colour("209", "1")),
 		},
-		Marker: n().Bold(true).Foreground(colour("231", "15")),
-		Best:   n().Bold(true).Foreground(colour("231", "15")),
+		Marker: n().Bold(true).Foreground(colour("201", "13")),
+		Best:   n().Bold(true).Foreground(colour("201", "13")),
 		None:   s.Dim,
 	}
 }
@@ -277,7 +277,7 @@ func (v *mapView) nowLine(st *state, spec model.MetricSpec) string {
 	}
 	lx, ly := model.Levers[v.kx], model.Levers[v.ky]
 	x, y := lx.Spec().Get(st.target), ly.Spec().Get(st.target)
-	return v.fitLine(v.ms.Marker.Render(mapMarker)+" now", val, spec.Unit,
+	return v.fitLine(v.ms.Marker.Render(mapMarker), "now", val, spec.Unit,
 		lx.Format(x), ly.Format(y))
 }
 
@@ -289,27 +289,30 @@ func (v *mapView) bestLine(spec model.MetricSpec, iMax int) string {
 	nx := v.grid.Axes[1].N
 	lx, ly := model.Levers[v.kx], model.Levers[v.ky]
 	x, y := v.grid.Axes[1].Value(iMax%nx), v.grid.Axes[0].Value(iMax/nx)
-	return v.fitLine(v.ms.Best.Render(mapBest)+" max", fmtNum(v.vals[iMax], metricDecimals(spec.Key)), spec.Unit,
-		gridValue(lx, x), gridValue(ly, y))
+	return v.fitLine(v.ms.Best.Render(mapBest), "max", fmtNum(v.vals[iMax], metricDecimals(spec.Key)), spec.Unit,
+		gridValue(lx, v.grid.Axes[1], x), gridValue(ly, v.grid.Axes[0], y))
 }
 
-// fitLine writes "head value unit at X x, Y y", with units, or without when
-// they do not fit.
-func (v *mapView) fitLine(head, val, unit, x, y string) string {
+// fitLine writes "glyph word value unit at X x, Y y": the longest form that
+// fits the view (lever units, the metric's unit and the word go in turn),
+// cut with … only when even the shortest does not fit.
+func (v *mapView) fitLine(glyph, word, val, unit, x, y string) string {
 	lx, ly := model.Levers[v.kx], model.Levers[v.ky]
 	u := ""
 	if unit != "" {
 		u = " " + unit
 	}
-	long := fmt.Sprintf(" %s %s%s at %s %s %s, %s %s %s", head, val, u, lx.Short, x, lx.Spec().Unit, ly.Short, y, ly.Spec().Unit)
-	if ansi.StringWidth(long) <= v.w {
-		return long
+	for _, c := range []string{
+		fmt.Sprintf(" %s %s %s%s at %s %s %s, %s %s %s", glyph, word, val, u, lx.Short, x, lx.Spec().Unit, ly.Short, y, ly.Spec().Unit),
+		fmt.Sprintf(" %s %s %s%s at %s %s, %s %s", glyph, word, val, u, lx.Short, x, ly.Short, y),
+		fmt.Sprintf(" %s %s %s at %s %s, %s %s", glyph, word, val, lx.Short, x, ly.Short, y),
+		fmt.Sprintf(" %s %s at %s %s, %s %s", glyph, val, lx.Short, x, ly.Short, y),
+	} {
+		if ansi.StringWidth(c) <= v.w {
+			return c
+		}
 	}
-	mid := fmt.Sprintf(" %s %s%s at %s %s, %s %s", head, val, u, lx.Short, x, ly.Short, y)
-	if ansi.StringWidth(mid) <= v.w {
-		return mid
-	}
-	return fmt.Sprintf(" %s %s at %s %s, %s %s", head, val, lx.Short, x, ly.Short, y)
+	return ansi.Truncate(fmt.Sprintf(" %s %s %s %s, %s %s", glyph, val, lx.Short, x, ly.Short, y), v.w, "…")
 }
 
 // progressLine says how far the map has come, or how long it took, and the
@@ -334,12 +337,12 @@ func (v *mapView) progressLine() string {
 	return v.s.Dim.Render(s)
 }
 
-// gridValue writes a lever's value at a grid point: the lever's decimals, or
-// three significant digits when those are more.
-func gridValue(l model.Lever, x float64) string {
+// gridValue writes a lever's value at a point of axis a: with the lever's
+// decimals, or more when the grid's spacing needs them.
+func gridValue(l model.Lever, a sweep.Axis, x float64) string {
 	dec := l.Decimals
-	if x != 0 {
-		dec = max(dec, 2-int(math.Floor(math.Log10(math.Abs(x)))))
+	if step := math.Abs(a.To-a.From) / float64(max(a.N-1, 1)); step > 0 {
+		dec = max(dec, int(math.Ceil(-math.Log10(step)-1e-9)))
 	}
 	return strconv.FormatFloat(x, 'f', dec, 64)
 }

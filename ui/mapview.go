@@ -3,6 +3,7 @@ package ui
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"time"
 
@@ -238,4 +239,23 @@ func nextLever(i, other, step int) int {
 			return i
 		}
 	}
+}
+
+// mapKey hands a key of the map to the map view when it is on screen and
+// says what the map now shows; elsewhere it says where the map is.
+func (m *Model) mapKey(msg tea.KeyMsg) tea.Cmd {
+	v, ok := m.views[m.cur].(*mapView)
+	if !ok {
+		for i, w := range m.views {
+			if _, ok := w.(*mapView); ok {
+				m.setStatus(fmt.Sprintf("m, x and y choose what the coupling map shows: %d shows it.", i+1))
+			}
+		}
+		return nil
+	}
+	cmd := v.Update(msg, &m.st)
+	spec, _ := model.MetricByKey(sweep.MapMetrics[v.metric])
+	m.setStatus(fmt.Sprintf("Map of %s (%s) over %s and %s.", spec.Label, spec.Meaning,
+		model.Levers[v.kx].Name, model.Levers[v.ky].Name))
+	return cmd
 }

@@ -105,8 +105,8 @@ func TestMapKeys(t *testing.T) {
 			t.Errorf("%s: metric %s, want %s", c.key, sweep.MapMetrics[v.metric], c.metric)
 		}
 		spec, _ := model.MetricByKey(c.metric)
-		if !strings.Contains(m.View(), spec.Label+":") {
-			t.Errorf("%s: %s not on screen", c.key, spec.Label)
+		if !strings.Contains(m.View(), spec.Label+":") || !strings.Contains(m.status, "Map of "+spec.Label) {
+			t.Errorf("%s: %s not on screen; status %q", c.key, spec.Label, m.status)
 		}
 	}
 	if v.started != first {
@@ -267,5 +267,57 @@ func TestMapQuitStopsJob(t *testing.T) {
 	}
 	if g := ours(); g != "" {
 		t.Errorf("a goroutine of the explorer outlives the program:\n%s", g)
+	}
+}
+
+// Every lever makes a map with the other default lever, around every
+// preset: the axes hold the setting, and the marker is on screen.
+func TestMapEveryLever(t *testing.T) {
+	if testing.Short() {
+		t.Skip("solves many maps")
+	}
+	for _, preset := range []string{"normal", "hfref"} {
+		m := newTestModel(t, preset, termenv.Ascii)
+		t.Cleanup(m.Close)
+		press(m, tea.WindowSizeMsg{Width: 80, Height: 24})
+		keys(m, "3")
+		v := mapOf(t, m)
+		for range len(model.Levers) - 1 {
+			keys(m, "x")
+			l := model.Levers[v.kx]
+			if v.err != nil || v.job == nil || !v.finished {
+				t.Errorf("%s, map over %s: err %v", preset, l.Key, v.err)
+				continue
+			}
+			ok := 0
+			for _, s := range v.stat {
+				if s == sweep.OK {
+					ok++
+				}
+			}
+			if ok < len(v.stat)/2 {
+				t.Errorf("%s, map over %s: %d of %d points settled", preset, l.Key, ok, len(v.stat))
+			}
+			if !v.holds(m.st.target, v.grid.Axes[1].N, v.grid.Axes[0].N) {
+				t.Errorf("%s, map over %s: axes %v do not hold the setting", preset, l.Key, v.grid.Axes[1])
+			}
+			marker(t, m.View())
+		}
+	}
+}
+
+// Off the map view, the map's keys say where the map is and change nothing.
+func TestMapKeysElsewhere(t *testing.T) {
+	m := sized(t, "normal")
+	v := mapOf(t, m)
+	for _, k := range []string{"m", "M", "x", "X", "y", "Y"} {
+		metric, kx, ky := v.metric, v.kx, v.ky
+		keys(m, k)
+		if v.metric != metric || v.kx != kx || v.ky != ky || v.job != nil {
+			t.Errorf("%s on the PV plane changed the map", k)
+		}
+		if !strings.Contains(m.status, "coupling map") || !strings.Contains(m.status, "3 shows it") {
+			t.Errorf("%s: status %q", k, m.status)
+		}
 	}
 }

@@ -105,6 +105,9 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return m.openRecordingPrompt()
 	case key.Matches(msg, k.ClearRecording):
 		m.clearRecording()
+	// Coupling map (mapview.go).
+	case key.Matches(msg, k.MapMetric, k.MapX, k.MapY):
+		return m.mapKey(msg)
 	default:
 		return m.views[m.cur].Update(msg, &m.st)
 	}
