@@ -123,7 +123,7 @@ func (v *mapView) Render(st *state) string {
 	}
 	b.WriteString(padRight(yTitle+strings.Repeat(" ", max(2, v.w-ansi.StringWidth(yTitle)-ansi.StringWidth(right)))+v.s.Heading.Render(right), v.w))
 	// The map, top row at the largest y.
-	yTicks := mapTicks(ay, max(3, ny/4))
+	yTicks := mapTicks(ay, max(4, ny/3))
 	anyNone := false
 	for r := 0; r < ny; r++ {
 		b.WriteByte('\n')
@@ -168,7 +168,7 @@ func (v *mapView) Render(st *state) string {
 	lblW := v.w - mapLabelW
 	room := lblW - ansi.StringWidth(xTitle) - 2
 	lblRow := []byte(strings.Repeat(" ", max(room, 0)))
-	xTicks := mapTicks(ax, max(3, cw/10))
+	xTicks := mapTicks(ax, max(4, cw/8))
 	for ix := 0; ix < nx; ix++ {
 		s, ok := xTicks[ix]
 		if !ok {
