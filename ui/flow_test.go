@@ -64,3 +64,40 @@ func TestFlow(t *testing.T) {
 		t.Errorf("saved filling pressure %g, baseline %v", sc.Params.FillingPressure, sc.Baseline)
 	}
 }
+
+// TestPlayFlow plays a protocol in the whole program with real ticks: open
+// the protocol view, set the fastest speed, pick preload-reduction, see the
+// run end with the fitted ESPVR on screen, step back a beat, quit.
+func TestPlayFlow(t *testing.T) {
+	m := newTestModel(t, "normal", termenv.Ascii)
+	tm := teatest.NewTestModel(t, m, teatest.WithInitialTermSize(120, 40))
+	out := tm.Output()
+	wait := func(what string) {
+		t.Helper()
+		teatest.WaitFor(t, out, func(b []byte) bool { return bytes.Contains(b, []byte(what)) },
+			teatest.WithDuration(10*time.Second), teatest.WithCheckInterval(10*time.Millisecond))
+	}
+	wait("Filling pressure")
+	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("3")})
+	wait("Protocol playback")
+	for range 3 {
+		tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("+")})
+	}
+	wait("Speed: as fast as it computes.")
+	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("P")})
+	wait("Play a protocol")
+	tm.Send(tea.KeyMsg{Type: tea.KeyDown})
+	tm.Send(tea.KeyMsg{Type: tea.KeyDown})
+	tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
+	wait("End of preload-reduction, 25 beats: fitted Ees")
+	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(",")})
+	wait("Beat 24 of 25")
+	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("q")})
+	final := tm.FinalModel(t, teatest.WithFinalTimeout(5*time.Second)).(*Model)
+	if v := final.play; v.cur != 23 || len(v.run.beats) != 25 || v.playing {
+		t.Errorf("final: beat %d of %d computed, playing %v", v.cur+1, len(v.run.beats), v.playing)
+	}
+	if fit := fitRow(t, final.View()); fit[1] != "2.50" {
+		t.Errorf("fitted Ees on screen %q, want 2.50 (the model's)", fit[1])
+	}
+}

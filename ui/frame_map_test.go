@@ -74,7 +74,7 @@ func TestMapFrames(t *testing.T) {
 		log.mu.Lock()
 		first := len(log.sizes)
 		log.mu.Unlock()
-		prog.Send(keyMsg("3"))
+		prog.Send(keyMsg("4"))
 		deadline := time.Now().Add(20 * time.Second)
 		for !log.done() && time.Now().Before(deadline) {
 			time.Sleep(5 * time.Millisecond)
@@ -140,7 +140,7 @@ func BenchmarkMapNudge(b *testing.B) {
 	m := newTestModel(b, "normal", termenv.ANSI256)
 	b.Cleanup(m.Close)
 	press(m, tea.WindowSizeMsg{Width: 120, Height: 40})
-	keys(m, "3", "tab", "tab")
+	keys(m, "4", "tab", "tab")
 	_ = m.View()
 	i := 0
 	for b.Loop() {

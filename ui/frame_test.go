@@ -3,6 +3,7 @@ package ui
 import (
 	"bytes"
 	"io"
+	"slices"
 	"sort"
 	"strings"
 	"sync"
@@ -137,6 +138,18 @@ func settle(buf *lockedBuffer, quiet time.Duration) int {
 // of filling pressure (up, then down, alternating in runs of four), the key
 // frame and the solved frame together.
 func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, setup ...tea.Msg) []int {
+	return frameBytes(t, p, w, h, n, preset, func(i int) tea.Msg {
+		if (i/4)%2 == 1 {
+			return keyDown
+		}
+		return keyUp
+	}, setup...)
+}
+
+// frameBytes runs the explorer in Bubble Tea's standard renderer at w × h
+// with colour profile p, sends the setup messages, and returns the bytes
+// written after each of n messages step(0), step(1), ….
+func frameBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, step func(i int) tea.Msg, setup ...tea.Msg) []int {
 	m := newTestModel(t, preset, p)
 	var buf lockedBuffer
 	prog := NewProgram(m, tea.WithOutput(&buf), tea.WithInput(nil), tea.WithoutSignals())
@@ -155,11 +168,7 @@ func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, set
 	last := settle(&buf, quiet)
 	var sizes []int
 	for i := 0; i < n; i++ {
-		k := keyUp
-		if (i/4)%2 == 1 {
-			k = keyDown
-		}
-		prog.Send(k)
+		prog.Send(step(i))
 		now := settle(&buf, quiet)
 		sizes = append(sizes, now-last)
 		last = now
@@ -210,5 +219,55 @@ func TestBytesPerNudge(t *testing.T) {
 		if med > 8192 {
 			t.Errorf("%s: median %d bytes per nudge, want ≤ 8192", c.name, med)
 		}
+	}
+}
+
+// typed is the key message of typed text.
+func typed(s string) tea.KeyMsg { return tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(s)} }
+
+// TestBytesPerBeat holds protocol playback to ≤ 8 KB written per beat at
+// 120×40, median over beats 6 to 25 stepped with "." (each computes a new
+// beat and draws it; the first five are the protocols' identical baseline
+// beats, which cost a few hundred bytes), on two protocols.
+func TestBytesPerBeat(t *testing.T) {
+	if testing.Short() {
+		t.Skip("takes a few seconds")
+	}
+	down := tea.KeyMsg{Type: tea.KeyDown}
+	enter := tea.KeyMsg{Type: tea.KeyEnter}
+	space := tea.KeyMsg{Type: tea.KeySpace, Runes: []rune{' '}}
+	for _, c := range []struct {
+		name  string
+		p     termenv.Profile
+		setup []tea.Msg
+	}{
+		{"preload-reduction, 256 colours", termenv.ANSI256, []tea.Msg{typed("P"), down, down, enter, space}},
+		{"preload-reduction, no colour", termenv.Ascii, []tea.Msg{typed("P"), down, down, enter, space}},
+		{"afterload-challenge, 256 colours", termenv.ANSI256, []tea.Msg{typed("P"), enter, space}},
+	} {
+		sizes := frameBytes(t, c.p, 120, 40, 24, "normal", func(int) tea.Msg { return typed(".") }, c.setup...)
+		med := median(sizes[4:])
+		t.Logf("%s: median %d, largest %d bytes per beat (all: %v)", c.name, med, slices.Max(sizes), sizes)
+		if med > 8192 {
+			t.Errorf("%s: median %d bytes per beat, want ≤ 8192", c.name, med)
+		}
+	}
+}
+
+// BenchmarkBeatFrame is one beat of protocol playback at 120×40 in 256
+// colours: the step key (which computes the beat), the ESPVR fit and View.
+// The run restarts at its end, so every beat is a new one.
+func BenchmarkBeatFrame(b *testing.B) {
+	m := newTestModel(b, "normal", termenv.ANSI256)
+	m.after = func(time.Duration, tea.Msg) tea.Cmd { return nil }
+	press(m, tea.WindowSizeMsg{Width: 120, Height: 40})
+	press(m, typed("P"), tea.KeyMsg{Type: tea.KeyDown}, tea.KeyMsg{Type: tea.KeyDown}, tea.KeyMsg{Type: tea.KeyEnter}, typed(" "))
+	_ = m.View()
+	for b.Loop() {
+		if m.play.atEnd() {
+			press(m, typed("R"), typed(" "))
+		}
+		press(m, typed("."))
+		_ = m.View()
 	}
 }

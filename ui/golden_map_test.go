@@ -31,13 +31,14 @@ func TestGoldenMap(t *testing.T) {
 		w, h   int
 		keys   []string
 	}{
-		{"map_80x24", "normal", 80, 24, []string{"3"}},
-		{"map_120x40", "normal", 120, 40, []string{"3"}},
-		{"map_ef_hr_80x24", "hfref", 80, 24, []string{"3", "m", "m", "m", "x"}},
-		{"map_ef_fill_zc_120x40", "hfref", 120, 40, []string{"3", "M", "M", "X", "Y"}},
+		{"map_80x24", "normal", 80, 24, []string{"4"}},
+		{"map_120x40", "normal", 120, 40, []string{"4"}},
+		{"map_ef_hr_80x24", "hfref", 80, 24, []string{"4", "m", "m", "m", "x"}},
+		{"map_ef_fill_zc_120x40", "hfref", 120, 40, []string{"4", "M", "M", "X", "Y"}},
 		{"recording_80x24", "hfref", 80, 24, open(occlusionCSV)},
 		{"recording_120x40", "hfref", 120, 40, open(occlusionCSV)},
 		{"recording_steady_120x40", "normal", 120, 40, append(open(steadyCSV), "K", "K")},
+		{"recording_map_80x24", "hfref", 80, 24, append(open(occlusionCSV), "4")},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			m := newTestModel(t, c.preset, termenv.Ascii)

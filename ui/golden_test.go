@@ -33,12 +33,33 @@ func TestGolden(t *testing.T) {
 		{"save_prompt_80x24", 80, 24, []string{"s"}},
 		{"limit_80x24", 80, 24, []string{"tab", "tab", "tab", "K", "K", "K", "K", "K", "K"}},
 		{"too_small_60x20", 60, 20, nil},
+		{"protocols_80x24", 80, 24, []string{"P"}},
+		{"play_intro_80x24", 80, 24, []string{"3"}},
+		{"play_intro_120x40", 120, 40, []string{"3"}},
+		// preload-reduction, paused at beat 15 after 14 steps.
+		{"play_80x24", 80, 24, append([]string{"P", "down", "down", "enter", " "}, repeat(".", 14)...)},
+		{"play_120x40", 120, 40, append([]string{"P", "down", "down", "enter", " "}, repeat(".", 14)...)},
+		// rate-steps, playing (ticks held back) at beat 1 at twice real time.
+		{"play_start_120x40", 120, 40, []string{"3", "+", "P", "down", "down", "down", "enter"}},
+		// preload-reduction at beat 15 with a recording open: the readouts
+		// still count from the run's start.
+		{"play_rec_80x24", 80, 24, append([]string{"O", "ctrl+u", steadyCSV, "enter", "P", "down", "down", "enter", " "}, repeat(".", 14)...)},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			m := newTestModel(t, "normal", termenv.Ascii)
+			withTicker(m)
 			press(m, tea.WindowSizeMsg{Width: c.w, Height: c.h})
 			keys(m, c.keys...)
 			golden.RequireEqual(t, []byte(m.View()))
 		})
 	}
+}
+
+// repeat is n copies of s.
+func repeat(s string, n int) []string {
+	out := make([]string, n)
+	for i := range out {
+		out[i] = s
+	}
+	return out
 }

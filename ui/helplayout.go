@@ -42,8 +42,9 @@ func packColumns(s *Styles, cols []string, w int, gap string) string {
 const helpColumnGap = 3
 
 // recordingCues says what the recording overlay and the map show.
-const recordingCues = "Recording (O): • its steady loop, · its other beats, rec ESPVR; readouts compare with it.\n" +
-	"Coupling map: ·░▒▓█ low to high, ◆ the levers now, * the largest value, × no steady beat."
+const recordingCues = "Recording (O): • its steady loop, · its other beats, rec ESPVR fitted to it.\n" +
+	"Coupling map: ·░▒▓█ low to high, ◆ the levers now, * the largest value,\n" +
+	"× no steady beat."
 
 // fitCue says how to start from a model fitted to a recording.
 const fitCue = "Model fitted to a recording: pvcouple fit FILE.csv -o fit.yaml, then o."

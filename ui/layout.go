@@ -55,10 +55,11 @@ func (m *Model) resize(w, h int) {
 		v.SetSize(m.lay.mainW, m.lay.mainH)
 	}
 	if m.lay.strip {
-		m.readouts.SetSize(m.lay.sideW, m.lay.mainH)
+		m.readouts.SetSize(m.lay.sideW, m.lay.mainH, 0)
 		m.levers.SetSize(w, m.lay.leverH, true)
 	} else {
-		m.readouts.SetSize(m.lay.sideW, m.lay.readH)
+		// A fit section goes below the readouts if the levers leave room.
+		m.readouts.SetSize(m.lay.sideW, m.lay.readH, max(m.lay.mainH-m.lay.readH-1-m.lay.leverH, 0))
 		m.levers.SetSize(m.lay.sideW, m.lay.mainH-m.lay.readH-1, false)
 	}
 	m.help.Width = w

@@ -242,13 +242,18 @@ func nextLever(i, other, step int) int {
 }
 
 // mapKey hands a key of the map to the map view when it is on screen and
-// says what the map now shows; elsewhere it says where the map is.
+// says what the map now shows; elsewhere it says where the map is (in the
+// protocol view, where x stops the run, that m, X and y are the map's).
 func (m *Model) mapKey(msg tea.KeyMsg) tea.Cmd {
 	v, ok := m.views[m.cur].(*mapView)
 	if !ok {
+		keys, here := "m, x and y", ""
+		if m.onPlay() {
+			keys, here = "m, X and y", " (here x stops the run)"
+		}
 		for i, w := range m.views {
 			if _, ok := w.(*mapView); ok {
-				m.setStatus(fmt.Sprintf("m, x and y choose what the coupling map shows: %d shows it.", i+1))
+				m.setStatus(fmt.Sprintf("%s choose what the coupling map shows: view %d shows it%s.", keys, i+1, here))
 			}
 		}
 		return nil

@@ -32,7 +32,7 @@ func onMap(t *testing.T, preset string) (*Model, *mapView) {
 	t.Helper()
 	m := sized(t, preset)
 	t.Cleanup(m.Close)
-	keys(m, "3")
+	keys(m, "4")
 	v := mapOf(t, m)
 	if v.job == nil || !v.finished {
 		t.Fatalf("map not solved: job %v, finished %v, err %v", v.job, v.finished, v.err)
@@ -186,7 +186,7 @@ func TestMapCancelledOffScreen(t *testing.T) {
 	t.Cleanup(m.Close)
 	v := mapOf(t, m)
 	t0 := time.Now()
-	m.Update(keyMsg("3")) // not press: the job's ticks are not run
+	m.Update(keyMsg("4")) // not press: the job's ticks are not run
 	if d := time.Since(t0); d > 50*time.Millisecond {
 		t.Errorf("starting the map took %v", d)
 	}
@@ -211,13 +211,13 @@ func TestMapCancelledOffScreen(t *testing.T) {
 	if v.job != nil {
 		t.Error("the cancelled map is kept")
 	}
-	keys(m, "3")
+	keys(m, "4")
 	if v.job == nil || v.job == job || !v.finished {
 		t.Error("coming back did not solve the map")
 	}
 	// A finished map is kept off screen and shown again without solving.
 	n := v.started
-	keys(m, "1", "3")
+	keys(m, "1", "4")
 	if v.started != n {
 		t.Error("a finished map was solved again")
 	}
@@ -237,7 +237,7 @@ func TestMapQuitStopsJob(t *testing.T) {
 		}
 	}()
 	prog.Send(tea.WindowSizeMsg{Width: 200, Height: 60}) // a large map: still solving at q
-	prog.Send(keyMsg("3"))
+	prog.Send(keyMsg("4"))
 	prog.Send(keyMsg("q"))
 	<-done
 	v := mapOf(t, m)
@@ -280,7 +280,7 @@ func TestMapEveryLever(t *testing.T) {
 		m := newTestModel(t, preset, termenv.Ascii)
 		t.Cleanup(m.Close)
 		press(m, tea.WindowSizeMsg{Width: 80, Height: 24})
-		keys(m, "3")
+		keys(m, "4")
 		v := mapOf(t, m)
 		for range len(model.Levers) - 1 {
 			keys(m, "x")
@@ -306,18 +306,28 @@ func TestMapEveryLever(t *testing.T) {
 	}
 }
 
-// Off the map view, the map's keys say where the map is and change nothing.
+// Off the map view, the map's keys say where the map is and change nothing;
+// in the protocol view x stops the run instead (play_test.go).
 func TestMapKeysElsewhere(t *testing.T) {
 	m := sized(t, "normal")
 	v := mapOf(t, m)
-	for _, k := range []string{"m", "M", "x", "X", "y", "Y"} {
-		metric, kx, ky := v.metric, v.kx, v.ky
-		keys(m, k)
-		if v.metric != metric || v.kx != kx || v.ky != ky || v.job != nil {
-			t.Errorf("%s on the PV plane changed the map", k)
-		}
-		if !strings.Contains(m.status, "coupling map") || !strings.Contains(m.status, "3 shows it") {
-			t.Errorf("%s: status %q", k, m.status)
+	for _, view := range []string{"1", "2", "3"} {
+		keys(m, view)
+		for _, k := range []string{"m", "M", "x", "X", "y", "Y"} {
+			if view == "3" && k == "x" {
+				continue
+			}
+			metric, kx, ky := v.metric, v.kx, v.ky
+			keys(m, k)
+			if v.metric != metric || v.kx != kx || v.ky != ky || v.job != nil {
+				t.Errorf("%s in view %s changed the map", k, view)
+			}
+			if m.statusErr || !strings.Contains(m.status, "coupling map") || !strings.Contains(m.status, "view 4 shows it") {
+				t.Errorf("%s in view %s: status %q", k, view, m.status)
+			}
+			if here := strings.Contains(m.status, "x stops the run"); here != (view == "3") {
+				t.Errorf("%s in view %s: status %q", k, view, m.status)
+			}
 		}
 	}
 }

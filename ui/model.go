@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"time"
 
 	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/textinput"
@@ -15,11 +16,12 @@ import (
 type mode int
 
 const (
-	modeMain    mode = iota // the levers
-	modeHelp                // the help overlay
-	modePicker              // the preset picker
-	modePrompt              // a file path prompt (save or open)
-	modeConfirm             // overwrite an existing file?
+	modeMain      mode = iota // the levers
+	modeHelp                  // the help overlay
+	modePicker                // the preset picker
+	modePrompt                // a file path prompt (see promptKind)
+	modeConfirm               // overwrite an existing file?
+	modeProtocols             // the protocol picker
 )
 
 // Model is the explorer's root Bubble Tea model.
@@ -50,15 +52,21 @@ type Model struct {
 	status    string
 	statusErr bool
 
-	mode     mode
-	picker   picker
-	prompt   textinput.Model
-	saving   bool   // the prompt saves (else it opens)
-	lastPath string // the path last saved or opened
-	confirm  string // the path to overwrite when confirmed
+	mode      mode
+	picker    picker
+	prompt    textinput.Model
+	promptFor promptKind // what the path prompt is for
+	lastPath  string     // the scenario path last saved or opened
+	confirm   string     // the path to overwrite when confirmed
+
+	play             *playView // the protocol view, also in views
+	runs             int       // protocol runs started; the id of the latest
+	lastProtocolPath string    // the protocol file last played
+	// after returns a command that delivers msg after d: tea.Tick, or in
+	// tests a recorder that lets them hand each tick over themselves.
+	after func(d time.Duration, msg tea.Msg) tea.Cmd
 
 	// Recording overlay and background work (overlay.go, follow.go).
-	promptRec   bool   // the prompt opens a recording
 	lastRecPath string // the recording last opened
 	closed      bool   // Close was called: no more background work
 }
@@ -75,6 +83,14 @@ func New(sc *presets.Scenario, origin string, styles *Styles) (*Model, error) {
 		views:      newViews(styles),
 		readouts:   newReadoutPanel(styles),
 		levers:     newLeverPanel(styles),
+	}
+	for _, v := range m.views {
+		if p, ok := v.(*playView); ok {
+			m.play = p
+		}
+	}
+	m.after = func(d time.Duration, msg tea.Msg) tea.Cmd {
+		return tea.Tick(d, func(time.Time) tea.Msg { return msg })
 	}
 	m.help = newHelp(styles)
 	m.prompt = newPrompt(styles)

@@ -5,8 +5,6 @@ import (
 	"path/filepath"
 	"strings"
 
-	tea "github.com/charmbracelet/bubbletea"
-
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 )
@@ -40,17 +38,6 @@ func newRecording(path string, a *analysis.Analysis) (*recording, error) {
 		}
 	}
 	return r, nil
-}
-
-// openRecordingPrompt asks for the path of a recording to overlay.
-func (m *Model) openRecordingPrompt() tea.Cmd {
-	m.saving, m.promptRec = false, true
-	m.prompt.Reset()
-	m.prompt.Prompt = "Open recording (CSV): "
-	m.prompt.SetValue(m.lastRecPath)
-	m.prompt.CursorEnd()
-	m.mode = modePrompt
-	return m.prompt.Focus()
 }
 
 // openRecording reads, analyses and overlays a recording. A file that cannot

@@ -22,7 +22,7 @@ func withoutFooter(screen string) string {
 func TestRecordingKeys(t *testing.T) {
 	m := sized(t, "hfref")
 	keys(m, "O")
-	if m.mode != modePrompt || !m.promptRec || !strings.Contains(m.View(), "Open recording (CSV): ") {
+	if m.mode != modePrompt || m.promptFor != promptRecording || !strings.Contains(m.View(), "Open recording (CSV): ") {
 		t.Fatalf("O: mode %v, prompt %q", m.mode, m.prompt.Prompt)
 	}
 	keys(m, "esc")

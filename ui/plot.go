@@ -79,15 +79,52 @@ const (
 // Render draws the series (first drawn first, so later ones lie on top) and
 // labels in frame f, and returns exactly h lines of width w.
 func (p *plot) Render(f frame, ss []series, labels []label) string {
-	if p.w < minPlotW || p.h < minPlotH {
-		return blankBlock(p.w, p.h)
+	return p.RenderOn(nil, f, ss, labels)
+}
+
+// layer is drawn cells kept between renders, so that series that do not
+// change (a family of loops that only grows) are drawn once. It belongs to
+// one plot, one frame and one size.
+type layer struct {
+	cells []rune
+	sty   []uint8
+	f     frame
+	w, h  int // the plot's outer size it was drawn for
+	n     int // series drawn on it so far; the owner's count
+}
+
+// fits reports whether l was drawn for this plot's size and frame f.
+func (p *plot) fits(l *layer, f frame) bool {
+	return l.cells != nil && l.f == f && l.w == p.w && l.h == p.h
+}
+
+// drawLayer draws ss on l, over what it holds if it fits frame f and the
+// plot's size, else on a cleared layer (with n reset to 0).
+func (p *plot) drawLayer(l *layer, f frame, ss []series) {
+	if !p.prepare(f) {
+		return
 	}
-	yt := f.Y.ticks()
-	ylabels := make([]string, len(yt))
+	if !p.fits(l, f) || len(l.cells) != len(p.cells) {
+		l.cells, l.sty = make([]rune, len(p.cells)), make([]uint8, len(p.cells))
+		l.f, l.w, l.h, l.n = f, p.w, p.h, 0
+	}
+	cells, sty := p.cells, p.sty
+	p.cells, p.sty = l.cells, l.sty
+	for _, s := range ss {
+		p.draw(f, s)
+	}
+	p.cells, p.sty = cells, sty
+}
+
+// prepare sizes the drawing area for frame f (the y tick labels' width
+// sets it); false when the plot is too small to draw.
+func (p *plot) prepare(f frame) bool {
+	if p.w < minPlotW || p.h < minPlotH {
+		return false
+	}
 	p.lw = 3
-	for i, v := range yt {
-		ylabels[i] = tickLabel(v, f.Y.Step)
-		p.lw = max(p.lw, len(ylabels[i]))
+	for _, v := range f.Y.ticks() {
+		p.lw = max(p.lw, len(tickLabel(v, f.Y.Step)))
 	}
 	p.cw, p.ch = p.w-p.lw-1, p.h-3
 	n := p.cw * p.ch
@@ -95,8 +132,27 @@ func (p *plot) Render(f frame, ss []series, labels []label) string {
 		p.cells, p.sty, p.dots = make([]rune, n), make([]uint8, n), make([]uint8, n)
 	}
 	p.cells, p.sty, p.dots = p.cells[:n], p.sty[:n], p.dots[:n]
-	clear(p.cells)
-	clear(p.sty)
+	return true
+}
+
+// RenderOn is Render over the cells of layer base (nil for none), which
+// must fit frame f and the plot's size.
+func (p *plot) RenderOn(base *layer, f frame, ss []series, labels []label) string {
+	if !p.prepare(f) {
+		return blankBlock(p.w, p.h)
+	}
+	yt := f.Y.ticks()
+	ylabels := make([]string, len(yt))
+	for i, v := range yt {
+		ylabels[i] = tickLabel(v, f.Y.Step)
+	}
+	if base != nil && p.fits(base, f) && len(base.cells) == len(p.cells) {
+		copy(p.cells, base.cells)
+		copy(p.sty, base.sty)
+	} else {
+		clear(p.cells)
+		clear(p.sty)
+	}
 	for _, s := range ss {
 		p.draw(f, s)
 	}

@@ -30,27 +30,48 @@ func newPrompt(s *Styles) textinput.Model {
 	return t
 }
 
-// openPrompt asks for a path to save to (save) or open from.
-func (m *Model) openPrompt(save bool) tea.Cmd {
-	m.saving, m.promptRec = save, false
+// promptKind is what the path prompt is for.
+type promptKind int
+
+const (
+	promptSave      promptKind = iota // save the scenario
+	promptOpen                        // open a scenario
+	promptProtocol                    // play a protocol file
+	promptRecording                   // overlay a recording (overlay.go)
+)
+
+// promptVerb is what Enter does in the prompt, for its hint.
+var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens", promptProtocol: "plays",
+	promptRecording: "overlays"}
+
+// openPrompt asks for a path to save to, open from, play or overlay.
+func (m *Model) openPrompt(kind promptKind) tea.Cmd {
+	m.promptFor = kind
 	m.prompt.Reset()
-	if save {
+	switch kind {
+	case promptSave:
 		m.prompt.Prompt = "Save scenario to: "
 		v := m.lastPath
 		if v == "" {
 			v = m.st.name + ".yaml"
 		}
 		m.prompt.SetValue(v)
-	} else {
+	case promptOpen:
 		m.prompt.Prompt = "Open scenario: "
 		m.prompt.SetValue(m.lastPath)
+	case promptProtocol:
+		m.prompt.Prompt = "Play protocol file: "
+		m.prompt.SetValue(m.lastProtocolPath)
+	case promptRecording:
+		m.prompt.Prompt = "Open recording (CSV): "
+		m.prompt.SetValue(m.lastRecPath)
 	}
 	m.prompt.CursorEnd()
 	m.mode = modePrompt
 	return m.prompt.Focus()
 }
 
-// promptKey edits the path; Enter saves or opens, Esc cancels.
+// promptKey edits the path; Enter does what the prompt is for, Esc cancels.
 func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 	switch {
 	case msg.String() == "ctrl+c":
@@ -68,13 +89,15 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 			m.setError("No path given: nothing saved or opened.")
 			return nil
 		}
-		switch {
-		case m.promptRec:
-			m.openRecording(path)
-		case m.saving:
+		switch m.promptFor {
+		case promptSave:
 			m.save(path, false)
-		default:
+		case promptOpen:
 			m.open(path)
+		case promptProtocol:
+			return m.playFile(path)
+		case promptRecording:
+			m.openRecording(path)
 		}
 		return nil
 	}

@@ -45,30 +45,58 @@ func readouts() []readout {
 	return rs
 }
 
-// readoutPanel shows every readout now, at baseline, and the change. Wide,
-// it has columns now, unit, base, Δ and %; narrow, it drops the base column.
+// readoutPanel shows every readout now, against its reference (the
+// baseline, a recording or a run's start), and the change. Wide, it has
+// columns now, unit, reference, Δ and %; narrow, it drops the reference
+// column, except for a recording, where it drops % instead.
+// Below the readouts it may carry an ESPVR fit section (see fitReadout).
 type readoutPanel struct {
 	s    *Styles
 	rows []readout
 	w, h int
+	room int // lines the fit section may take below h
 	wide bool
 
-	cacheShown, cacheBase *model.Steady
-	cacheRec              *recording
-	cache                 string
+	cacheSrc readoutSource
+	cache    string
+}
+
+// readoutSource is what the panel shows: one beat's metrics against a
+// reference, with the headings of their columns, and maybe an ESPVR fit.
+type readoutSource struct {
+	now, base         *model.Metrics
+	nowHead, baseHead string // "now" and "base", "beat" and "start", or "now" and "rec"
+	// rec is the recording base comes from, nil when base is not a
+	// recording's: narrow, the panel then shows the reference column (rec)
+	// and Δ in place of Δ and %. It keeps the cache apart for every
+	// recording opened.
+	rec *recording
+	fit fitReadout
+}
+
+// steadySource is the panel's usual source: the loop on screen against the
+// recording's steady beat when a recording is overlaid (see reference),
+// else against the baseline.
+func steadySource(st *state) readoutSource {
+	src := readoutSource{nowHead: "now", baseHead: refName(st), rec: st.rec, base: reference(st)}
+	if st.shown != nil {
+		src.now = &st.shown.Metrics
+	}
+	return src
 }
 
 func newReadoutPanel(s *Styles) *readoutPanel {
 	return &readoutPanel{s: s, rows: readouts()}
 }
 
-// readoutWideW is the width at which the panel shows the base column.
+// readoutWideW is the width at which the panel shows the reference column.
 const readoutWideW = 50
 
-// SetSize sets the panel's size.
-func (p *readoutPanel) SetSize(w, h int) {
-	if w != p.w || h != p.h {
-		p.w, p.h, p.wide = w, h, w >= readoutWideW
+// SetSize sets the panel's size: h lines, and room more that a fit section
+// may take.
+func (p *readoutPanel) SetSize(w, h, room int) {
+	if w != p.w || h != p.h || room != p.room {
+		p.w, p.h, p.room, p.wide = w, h, room, w >= readoutWideW
 		p.cache = ""
 	}
 }
@@ -88,21 +116,30 @@ func (p *readoutPanel) cols(rec bool) columns {
 	return columns{label: 6, val: 7, unit: 7, delta: 6, pct: 7}
 }
 
-// Render draws the panel from the loop on screen and the baseline: exactly h
-// lines of width w.
-func (p *readoutPanel) Render(st *state) string {
-	if p.cache != "" && st.shown == p.cacheShown && st.base == p.cacheBase && st.rec == p.cacheRec {
+// height is the number of lines Render returns for src.
+func (p *readoutPanel) height(src readoutSource) int {
+	if src.fit.shown {
+		return p.h + min(p.room, fitLines)
+	}
+	return p.h
+}
+
+// Render draws the panel from src: exactly height(src) lines of width w. A
+// fit section that does not fit below the readouts takes the place of the
+// last ones (the energetics).
+func (p *readoutPanel) Render(src readoutSource) string {
+	if p.cache != "" && src == p.cacheSrc {
 		return p.cache
 	}
-	s, c := p.s, p.cols(st.rec != nil)
+	s, c := p.s, p.cols(src.rec != nil)
 	var lines []string
 	title := ""
 	if p.wide {
 		title = "Readout"
 	}
-	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, title, c.val, "now", c.unit, "unit")
+	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, title, c.val, src.nowHead, c.unit, "unit")
 	if c.base > 0 {
-		head += fmt.Sprintf("%*s", c.base, refName(st))
+		head += fmt.Sprintf("%*s", c.base, src.baseHead)
 	}
 	head += fmt.Sprintf(" %*s", c.delta, "Δ")
 	if c.pct > 0 {
@@ -110,26 +147,32 @@ func (p *readoutPanel) Render(st *state) string {
 	}
 	lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 	for _, r := range p.rows {
-		lines = append(lines, p.row(r, st, c))
+		lines = append(lines, p.row(r, src, c))
 	}
-	for len(lines) < p.h {
+	n := p.height(src)
+	if src.fit.shown {
+		fit := p.fitSection(src.fit, c)
+		keep := max(min(len(lines), n-len(fit)), 1)
+		lines = append(lines[:keep:keep], fit...)
+	}
+	for len(lines) < n {
 		lines = append(lines, strings.Repeat(" ", p.w))
 	}
-	p.cache = strings.Join(lines[:p.h], "\n")
-	p.cacheShown, p.cacheBase, p.cacheRec = st.shown, st.base, st.rec
+	p.cache = strings.Join(lines[:n], "\n")
+	p.cacheSrc = src
 	return p.cache
 }
 
 // row renders one readout: value with its out-of-range cue (▲ above, ▼
 // below the normal range), unit, baseline and change.
-func (p *readoutPanel) row(r readout, st *state, c columns) string {
+func (p *readoutPanel) row(r readout, src readoutSource, c columns) string {
 	s := p.s
 	now, base := math.NaN(), math.NaN()
-	if st.shown != nil {
-		now = r.spec.Get(&st.shown.Metrics)
+	if src.now != nil {
+		now = r.spec.Get(src.now)
 	}
-	if ref := reference(st); ref != nil {
-		base = r.spec.Get(ref)
+	if src.base != nil {
+		base = r.spec.Get(src.base)
 	}
 	label := fmt.Sprintf(" %-*s", c.label, r.spec.Label)
 	val := fmt.Sprintf("%*s", c.val, fmtNum(now, r.decimals))
@@ -146,13 +189,18 @@ func (p *readoutPanel) row(r readout, st *state, c columns) string {
 	if c.base > 0 {
 		dim += fmt.Sprintf("%*s", c.base, fmtNum(base, r.decimals))
 	}
-	line := label + val + cue + " " + s.Dim.Render(dim)
+	return padRight(label+val+cue+" "+s.Dim.Render(dim)+p.change(now, base, r.decimals, c), p.w)
+}
+
+// change is the Δ and % columns of a value against its reference.
+func (p *readoutPanel) change(now, base float64, decimals int, c columns) string {
 	d, pct := model.Change(now, base)
-	line += fmt.Sprintf(" %*s", c.delta, fmtDelta(d, r.decimals))
-	if c.pct > 0 {
-		line += fmt.Sprintf(" %*s", c.pct, fmtPct(pct))
+	ps := fmtPct(pct)
+	out := fmt.Sprintf(" %*s", c.delta, fmtDeltaBeside(d, decimals, c.delta, ps != "0"))
+	if c.pct > 0 { // narrow with a recording: no % column
+		out += fmt.Sprintf(" %*s", c.pct, ps)
 	}
-	return padRight(line, p.w)
+	return out
 }
 
 // fmtNum writes v with the given decimals, "—" when it is not a number.
@@ -180,6 +228,28 @@ func fmtDelta(d float64, decimals int) string {
 		s = "+" + s
 	}
 	return s
+}
+
+// fmtDeltaBeside writes a change in at most width cells beside a
+// percentage that is not zero (nonzero): where the display decimals round the
+// change to 0, it takes up to two more decimals, as the width allows, so
+// that Δ and % agree (Ea 1.330 → 1.326 is "-0.004", not "0", beside
+// "-0.3%"); where even those round to 0, it keeps the sign ("-0.00").
+func fmtDeltaBeside(d float64, decimals, width int, nonzero bool) string {
+	s := fmtDelta(d, decimals)
+	if s != "0" || !nonzero || d == 0 || math.IsNaN(d) {
+		return s
+	}
+	for more := decimals + 1; more <= decimals+2; more++ {
+		if t := fmtDelta(d, more); t != "0" && len(t) <= width {
+			return t
+		}
+	}
+	sign := "+"
+	if d < 0 {
+		sign = "-"
+	}
+	return sign + strconv.FormatFloat(0, 'f', decimals, 64)
 }
 
 // fmtPct writes a percentage change with its sign and one decimal.

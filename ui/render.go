@@ -26,31 +26,55 @@ func (m *Model) View() string {
 		body = m.overlay(m.renderHelp())
 	case modePicker:
 		body = m.overlay(m.renderPicker())
+	case modeProtocols:
+		body = m.overlay(m.renderProtocols())
 	default:
 		body = m.renderBody()
 	}
-	return trimLines(m.topBar() + "\n" + body + "\n" + m.footer())
+	foot := m.footer()
+	if extra := strings.Count(foot, "\n") - 1; extra > 0 {
+		// An error too long for two lines takes the body's last line.
+		body = body[:nthLastNewline(body, extra)]
+	}
+	return trimLines(m.topBar() + "\n" + body + "\n" + foot)
+}
+
+// nthLastNewline is the index of the n-th newline from the end of s.
+func nthLastNewline(s string, n int) int {
+	i := len(s)
+	for ; n > 0 && i > 0; n-- {
+		i = strings.LastIndexByte(s[:i], '\n')
+	}
+	return max(i, 0)
 }
 
 // footer is the status line and the key line. A status too long for one
-// line (an error naming a file, a key and a range) takes the key line too.
+// line (an error naming a file, a key and a range) takes the key line too,
+// and an error too long for two lines a third.
 func (m *Model) footer() string {
 	if m.mode != modePrompt && ansi.StringWidth(m.status)+3 > m.w {
 		st := m.styles.Status
 		prefix := " "
+		room := 2
 		if m.statusErr {
-			st, prefix = m.styles.Error, " ✗ "
+			st, prefix, room = m.styles.Error, " ✗ ", 3
 		}
-		wrapped := ansi.Wrap(prefix+m.status, m.w, " /")
-		lines := strings.SplitN(wrapped, "\n", 3)
-		if len(lines) == 3 {
-			lines = lines[:2]
-			lines[1] = ansi.Truncate(lines[1], m.w-1, "") + "…"
+		wrapped := ansi.Wrap(prefix+m.status, m.w-3, " /") // room for the indent of the lines after the first
+		lines := strings.Split(wrapped, "\n")
+		if len(lines) > room {
+			lines = lines[:room]
+			lines[room-1] = ansi.Truncate(lines[room-1], m.w-4, "") + "…"
 		}
 		for len(lines) < 2 {
 			lines = append(lines, "")
 		}
-		return st.Render(padRight(lines[0], m.w)) + "\n" + st.Render(padRight("   "+strings.TrimLeft(lines[1], " "), m.w))
+		for i := range lines {
+			if i > 0 {
+				lines[i] = "   " + strings.TrimLeft(lines[i], " ")
+			}
+			lines[i] = st.Render(padRight(lines[i], m.w))
+		}
+		return strings.Join(lines, "\n")
 	}
 	return m.statusLine() + "\n" + m.keyLine()
 }
@@ -69,8 +93,15 @@ func trimLines(s string) string {
 // renderBody is the main view with the readout and lever panels.
 func (m *Model) renderBody() string {
 	l := m.lay
-	mainLines := strings.Split(m.views[m.cur].Render(&m.st), "\n")
-	side := m.readouts.Render(&m.st)
+	v := m.views[m.cur]
+	mainLines := strings.Split(v.Render(&m.st), "\n")
+	src := steadySource(&m.st)
+	if rv, ok := v.(readoutView); ok {
+		if s, ok := rv.readouts(&m.st); ok {
+			src = s
+		}
+	}
+	side := m.readouts.Render(src)
 	if !l.strip {
 		side += "\n" + strings.Repeat(" ", l.sideW) + "\n" + m.levers.Render(&m.st, m.sel)
 	}
@@ -117,19 +148,20 @@ func (m *Model) topBar() string {
 			left += s.Tab.Render(name)
 		}
 	}
-	right := s.Dim.Render("scenario ") + m.st.name + " "
-	gap := m.w - lipgloss.Width(left) - lipgloss.Width(right)
-	if gap < 1 {
-		return padRight(left, m.w)
+	// The scenario's name on the right, said as such where there is room.
+	for _, right := range []string{s.Dim.Render("scenario ") + m.st.name + " ", m.st.name + " "} {
+		if gap := m.w - lipgloss.Width(left) - lipgloss.Width(right); gap >= 1 {
+			return left + strings.Repeat(" ", gap) + right
+		}
 	}
-	return left + strings.Repeat(" ", gap) + right
+	return padRight(left, m.w)
 }
 
 // statusLine says what just happened, or holds the path prompt.
 func (m *Model) statusLine() string {
 	s := m.styles
 	if m.mode == modePrompt {
-		return padRight(" "+m.prompt.View()+s.Dim.Render("   Enter "+map[bool]string{true: "saves", false: "opens"}[m.saving]+" · Esc cancels"), m.w)
+		return padRight(" "+m.prompt.View()+s.Dim.Render("   Enter "+promptVerb[m.promptFor]+" · Esc cancels"), m.w)
 	}
 	if m.statusErr {
 		return padRight(s.Error.Render(" ✗ "+m.status), m.w)
@@ -137,7 +169,12 @@ func (m *Model) statusLine() string {
 	return padRight(s.Status.Render(" "+m.status), m.w)
 }
 
-// keyLine is the short help.
+// keyLine is the short help: the levers' keys, or playback's in the
+// protocol view.
 func (m *Model) keyLine() string {
-	return padRight(" "+m.help.ShortHelpView(m.keys.ShortHelp()), m.w)
+	keys := m.keys.ShortHelp()
+	if m.onPlay() {
+		keys = m.keys.PlayHelp()
+	}
+	return padRight(" "+m.help.ShortHelpView(keys), m.w)
 }

@@ -27,6 +27,7 @@ type Styles struct {
 	EDPVR    lipgloss.Style
 	Ea       lipgloss.Style
 	Aortic   lipgloss.Style // aortic pressure trace
+	Fit      lipgloss.Style // the ESPVR fitted to a protocol's loops, and its points
 
 	Selected lipgloss.Style // the selected lever
 	OutHigh  lipgloss.Style // a readout above its normal range (with ▲)
@@ -60,6 +61,7 @@ func NewStyles(r *lipgloss.Renderer) *Styles {
 		teal   = colour("37", "6")
 		red    = colour("203", "1")
 		cyan   = colour("74", "12")
+		purple = colour("134", "5")
 	)
 	n := r.NewStyle
 	return &Styles{
@@ -77,6 +79,7 @@ func NewStyles(r *lipgloss.Renderer) *Styles {
 		EDPVR:     n().Foreground(blue),
 		Ea:        n().Foreground(orange),
 		Aortic:    n().Foreground(teal),
+		Fit:       n().Foreground(purple),
 		Selected:  n().Bold(true).Foreground(accent),
 		OutHigh:   n().Bold(true).Foreground(red),
 		OutLow:    n().Bold(true).Foreground(cyan),

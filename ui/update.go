@@ -18,6 +18,8 @@ func (m *Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case solvedMsg:
 		return m, m.solved(msg)
+	case playTickMsg:
+		return m, m.playTick(msg)
 	case tea.KeyMsg:
 		// Esc and a key typed quickly after it (or sent together over a
 		// slow link) arrive as Alt and the key: take them as both.
@@ -53,6 +55,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return m.promptKey(msg)
 	case modeConfirm:
 		return m.confirmKey(msg)
+	case modeProtocols:
+		return m.protocolsKey(msg)
 	}
 	k := m.keys
 	switch {
@@ -88,10 +92,12 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		m.setStatus("Axes fitted to the loops again.")
 	case key.Matches(msg, k.Preset):
 		m.openPicker()
+	case key.Matches(msg, k.Protocol):
+		m.openProtocols()
 	case key.Matches(msg, k.Save):
-		return m.openPrompt(true)
+		return m.openPrompt(promptSave)
 	case key.Matches(msg, k.Open):
-		return m.openPrompt(false)
+		return m.openPrompt(promptOpen)
 	case key.Matches(msg, k.NextView):
 		m.showView(m.cur + 1)
 	case key.Matches(msg, k.GoView):
@@ -102,13 +108,20 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		}
 	// Recording overlay (overlay.go).
 	case key.Matches(msg, k.OpenRecording):
-		return m.openRecordingPrompt()
+		return m.openPrompt(promptRecording)
 	case key.Matches(msg, k.ClearRecording):
 		m.clearRecording()
+	// x stops a run in the protocol view; elsewhere it is the map's.
+	case key.Matches(msg, k.Stop) && m.onPlay():
+		cmd, _ := m.playKey(msg)
+		return cmd
 	// Coupling map (mapview.go).
 	case key.Matches(msg, k.MapMetric, k.MapX, k.MapY):
 		return m.mapKey(msg)
 	default:
+		if cmd, ok := m.playKey(msg); ok {
+			return cmd
+		}
 		return m.views[m.cur].Update(msg, &m.st)
 	}
 	return nil
@@ -123,10 +136,16 @@ func (m *Model) selectLever(i int) {
 	m.setStatus(fmt.Sprintf("%s: %s, %s (%s).", l.Name, s.Meaning, l.Format(s.Get(m.st.target))+" "+s.Unit, s.RangeText()))
 }
 
-// showView puts view i on screen, wrapping around.
+// showView puts view i on screen, wrapping around. A protocol playing in
+// the view that leaves pauses.
 func (m *Model) showView(i int) {
-	m.cur = (i%len(m.views) + len(m.views)) % len(m.views)
-	m.setStatus("View: " + m.views[m.cur].Name() + ".")
+	i = (i%len(m.views) + len(m.views)) % len(m.views)
+	note := ""
+	if i != m.cur && m.onPlay() {
+		note = m.leavePlay()
+	}
+	m.cur = i
+	m.setStatus("View: " + m.views[m.cur].Name() + "." + note)
 }
 
 // nudge moves the selected lever one step and asks for a solve. A step past

@@ -270,14 +270,22 @@ func TestBaselineUndoRedo(t *testing.T) {
 func TestViewsAndFit(t *testing.T) {
 	m := sized(t, "normal")
 	t.Cleanup(m.Close)
-	n := len(m.views) // v goes round every view
+	if n := len(m.views); n != 4 {
+		t.Fatalf("%d views, want 4: PV plane, beat traces, protocol, coupling map", n)
+	}
 	for _, c := range []struct {
 		key  string
 		want int
-	}{{"v", 1}, {"v", 2 % n}, {"2", 1}, {"1", 0}} {
+	}{{"v", 1}, {"v", 2}, {"v", 3}, {"v", 0}, {"2", 1}, {"3", 2}, {"4", 3}, {"1", 0}} {
 		keys(m, c.key)
 		if m.cur != c.want {
 			t.Errorf("%s: view %d, want %d", c.key, m.cur, c.want)
+		}
+	}
+	for k, want := range map[string]string{"3": "[3 Protocol]", "4": "[4 Coupling map]"} {
+		keys(m, k)
+		if !strings.Contains(m.View(), want) {
+			t.Errorf("%s: %s is not on screen", k, want)
 		}
 	}
 	keys(m, "2")
@@ -285,7 +293,7 @@ func TestViewsAndFit(t *testing.T) {
 		t.Error("the trace view is not on screen")
 	}
 	keys(m, "9")
-	if m.cur != 1 || !m.statusErr || !strings.Contains(m.status, "no view 9") {
+	if m.cur != 1 || !m.statusErr || !strings.Contains(m.status, "no view 9: views 1 to 4") {
 		t.Errorf("key 9: view %d, %q", m.cur, m.status)
 	}
 	// The axes hold still for a nudge that stays inside them, and z fits them anew.
@@ -538,9 +546,10 @@ func TestTooSmallWindow(t *testing.T) {
 // window, at every size from the least up, in every mode.
 func TestFrameFitsWindow(t *testing.T) {
 	m := newTestModel(t, "hfref", termenv.ANSI256)
+	withTicker(m)
 	for _, sz := range [][2]int{{80, 24}, {81, 25}, {99, 30}, {100, 33}, {111, 34}, {112, 40}, {120, 40}, {160, 50}, {200, 60}} {
 		press(m, tea.WindowSizeMsg{Width: sz[0], Height: sz[1]})
-		for _, k := range []string{"1", "2", "?", "?", "p", "esc", "s", "esc"} {
+		for _, k := range []string{"1", "2", "?", "?", "p", "esc", "s", "esc", "3", "P", "esc", "P", "up", "enter", "esc", "P", "down", "down", "enter", ".", ".", "x", "3"} {
 			keys(m, k)
 			lines := strings.Split(m.View(), "\n")
 			if len(lines) != sz[1] {

@@ -23,7 +23,14 @@ type view interface {
 
 // newViews returns the views in the order of the top bar.
 func newViews(s *Styles) []view {
-	return []view{newPVView(s), newTraceView(s),
-		newMapView(s), // the coupling map (mapview.go)
-	}
+	return []view{newPVView(s), newTraceView(s), newPlayView(s), newMapView(s)}
+}
+
+// readoutView is a view whose readouts are its own, such as a protocol
+// beat's against the run's start, rather than the steady loop's against the
+// baseline.
+type readoutView interface {
+	// readouts returns what the readout panel shows; ok is false to show
+	// the usual readouts.
+	readouts(st *state) (src readoutSource, ok bool)
 }

@@ -46,13 +46,31 @@ const MinESPVRSpan = 1.0
 // pure elastance model this recovers Ees and V0. v0Guess starts the iteration
 // (0 when unknown).
 func FitESPVR(beats []model.BeatSamples, v0Guess float64) (ESPVRFit, error) {
+	return iterateESPVR(beats, v0Guess, "iterated-max-elastance-linear", func(vs, ps []float64, fit *ESPVRFit) (float64, error) {
+		alpha, beta := stat.LinearRegression(vs, ps, nil, false)
+		if !(beta > 0) {
+			return 0, fmt.Errorf("end-systolic points do not rise with volume (slope %.3g mmHg/mL): preload did not change enough", beta)
+		}
+		fit.Ees, fit.V0 = beta, -alpha/beta
+		fit.R2 = stat.RSquared(vs, ps, nil, alpha, beta)
+		return fit.V0, nil
+	})
+}
+
+// iterateESPVR is the iteration of the maximal-elastance method shared by the
+// linear and quadratic relations: for the current V0 it takes each loop's
+// point of maximal P/(V − V0), lets relate fit the relation to those points
+// (filling fit and returning the new V0), and repeats until V0 moves less than
+// 1e-6 mL (at most 100 times).
+func iterateESPVR(beats []model.BeatSamples, v0Guess float64, method string,
+	relate func(vs, ps []float64, fit *ESPVRFit) (float64, error)) (ESPVRFit, error) {
 	if len(beats) < MinESPVRBeats {
 		return ESPVRFit{}, fmt.Errorf("an ESPVR needs at least %d loops with changing preload, got %d", MinESPVRBeats, len(beats))
 	}
 	v0 := v0Guess
 	vs := make([]float64, len(beats))
 	ps := make([]float64, len(beats))
-	fit := ESPVRFit{Beats: len(beats), Method: "iterated-max-elastance-linear"}
+	fit := ESPVRFit{Beats: len(beats), Method: method}
 	for it := 1; it <= 100; it++ {
 		for i, b := range beats {
 			p, err := maxElastancePoint(b, v0)
@@ -64,13 +82,11 @@ func FitESPVR(beats []model.BeatSamples, v0Guess float64) (ESPVRFit, error) {
 		if lo, hi := floats.Min(vs), floats.Max(vs); !(hi-lo >= MinESPVRSpan) {
 			return ESPVRFit{}, fmt.Errorf("end-systolic volumes span only %.2g mL (need %g mL): preload did not change enough", hi-lo, MinESPVRSpan)
 		}
-		alpha, beta := stat.LinearRegression(vs, ps, nil, false)
-		if !(beta > 0) {
-			return ESPVRFit{}, fmt.Errorf("end-systolic points do not rise with volume (slope %.3g mmHg/mL): preload did not change enough", beta)
+		next, err := relate(vs, ps, &fit)
+		if err != nil {
+			return ESPVRFit{}, err
 		}
-		next := -alpha / beta
-		fit.Ees, fit.V0, fit.Iterations = beta, next, it
-		fit.R2 = stat.RSquared(vs, ps, nil, alpha, beta)
+		fit.Iterations = it
 		if math.Abs(next-v0) < 1e-6 {
 			break
 		}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
 
@@ -18,56 +19,29 @@ import (
 // on their left as the new V0. Ees is the slope at the mean end-systolic
 // volume of the points, the middle of the range the relation was measured in.
 func FitESPVRQuadratic(beats []model.BeatSamples, v0Guess float64) (ESPVRFit, error) {
-	if len(beats) < MinESPVRBeats {
-		return ESPVRFit{}, fmt.Errorf("an ESPVR needs at least %d loops with changing preload, got %d", MinESPVRBeats, len(beats))
-	}
-	v0 := v0Guess
-	n := len(beats)
-	vs, ps := make([]float64, n), make([]float64, n)
-	fit := ESPVRFit{Beats: n, Method: "iterated-max-elastance-quadratic"}
-	for it := 1; it <= 100; it++ {
-		for i, b := range beats {
-			p, err := maxElastancePoint(b, v0)
-			if err != nil {
-				return ESPVRFit{}, fmt.Errorf("loop %d: %w", i+1, err)
-			}
-			vs[i], ps[i] = p.V, p.P
-		}
+	return iterateESPVR(beats, v0Guess, "iterated-max-elastance-quadratic", func(vs, ps []float64, fit *ESPVRFit) (float64, error) {
 		c, err := quadFit(vs, ps)
 		if err != nil {
-			return ESPVRFit{}, err
+			return 0, err
 		}
 		// Root of c0 + c1·V + c2·V² left of the smallest end-systolic volume.
-		vmin := vs[0]
-		for _, v := range vs {
-			vmin = math.Min(vmin, v)
-		}
-		next, ok := leftRoot(c, vmin)
+		next, ok := leftRoot(c, floats.Min(vs))
 		if !ok {
-			return ESPVRFit{}, errors.New("the quadratic ESPVR does not reach zero pressure left of the end-systolic points; use the linear fit")
+			return 0, errors.New("the quadratic ESPVR does not reach zero pressure left of the end-systolic points; use the linear fit")
 		}
 		fit.V0 = next
 		fit.Ees = c[1] + 2*c[2]*stat.Mean(vs, nil)
 		fit.Curvature = c[2]
-		fit.Iterations = it
-		est := make([]float64, n)
+		est := make([]float64, len(vs))
 		for i, v := range vs {
 			est[i] = c[0] + c[1]*v + c[2]*v*v
 		}
 		fit.R2 = stat.RSquaredFrom(est, ps, nil)
 		if !(fit.Ees > 0) {
-			return ESPVRFit{}, fmt.Errorf("the quadratic ESPVR falls within its points (slope %.3g mmHg/mL)", fit.Ees)
+			return 0, fmt.Errorf("the quadratic ESPVR falls within its points (slope %.3g mmHg/mL)", fit.Ees)
 		}
-		if math.Abs(next-v0) < 1e-6 {
-			break
-		}
-		v0 = next
-	}
-	fit.Points = make([]Point, n)
-	for i := range vs {
-		fit.Points[i] = Point{vs[i], ps[i]}
-	}
-	return fit, nil
+		return next, nil
+	})
 }
 
 // quadFit returns c with P ≈ c0 + c1·V + c2·V² by least squares.

@@ -3,6 +3,8 @@ package analysis
 import (
 	"fmt"
 	"math"
+
+	"gonum.org/v1/gonum/floats"
 )
 
 // DefaultSmoothWindow is the Savitzky–Golay window, s, used to smooth
@@ -70,8 +72,8 @@ func filterSegment(r *Recording, s Span, window float64, smooth bool) (*signals,
 	// The residual of the smooth fit estimates white noise: its variance is
 	// σ²·(1 − c₀), c₀ the filter's centre weight.
 	c0 := sm.coef[w/2][w/2]
-	sig.noiseP = residualSD(rawP, ps) / math.Sqrt(1-c0)
-	sig.noiseV = residualSD(rawV, vs) / math.Sqrt(1-c0)
+	sig.noiseP = rmsDiff(rawP, ps) / math.Sqrt(1-c0)
+	sig.noiseV = rmsDiff(rawV, vs) / math.Sqrt(1-c0)
 	sig.noiseCount = n
 	if smooth {
 		// A least-squares smoother passes white noise with variance σ²·c₀.
@@ -90,11 +92,7 @@ func filterSegment(r *Recording, s Span, window float64, smooth bool) (*signals,
 	return sig, nil
 }
 
-func residualSD(raw, smooth []float64) float64 {
-	var s float64
-	for i := range raw {
-		d := raw[i] - smooth[i]
-		s += d * d
-	}
-	return math.Sqrt(s / float64(len(raw)))
+// rmsDiff is the root-mean-square difference of two equally long series.
+func rmsDiff(a, b []float64) float64 {
+	return floats.Distance(a, b, 2) / math.Sqrt(float64(len(a)))
 }

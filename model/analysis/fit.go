@@ -189,7 +189,7 @@ func FitModel(a *Analysis, o FitOptions) (*FitResult, error) {
 	ml, _ := looper.loop(st.Beat)
 	modelLoop := &Loop{Period: period, T: append([]float64(nil), ml.T...), P: append([]float64(nil), ml.P...), V: append([]float64(nil), ml.V...)}
 	r := &FitResult{Params: p, HeartRate: hr, Beats: used, Stopped: stopped, Target: target, Model: modelLoop, Metrics: st.Metrics}
-	r.RMSPressure, r.RMSVolume = rms(modelLoop.P, target.P), rms(modelLoop.V, target.V)
+	r.RMSPressure, r.RMSVolume = rmsDiff(modelLoop.P, target.P), rmsDiff(modelLoop.V, target.V)
 	if r.RMSPressure > poorFit || r.RMSVolume > poorFit {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("the model does not reproduce this loop well (residual %.2g mmHg, %.2g mL): "+
 			"treat the fitted values as a rough match, not a measurement", r.RMSPressure, r.RMSVolume))
@@ -212,15 +212,6 @@ func misfit(l, target *Loop) float64 {
 		s += dp*dp + dv*dv
 	}
 	return s / float64(2*len(l.P))
-}
-
-func rms(a, b []float64) float64 {
-	var s float64
-	for i := range a {
-		d := a[i] - b[i]
-		s += d * d
-	}
-	return math.Sqrt(s / float64(len(a)))
 }
 
 // v0Scale is the step of V0 per unit of the search coordinate, mL.

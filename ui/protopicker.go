@@ -1,0 +1,93 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+
+	"pvcouple/presets"
+)
+
+// protocolFileItem is the last entry of the protocol picker: a file of
+// one's own, asked for in the path prompt.
+const protocolFileItem = "a file…"
+
+// openProtocols shows the built-in protocols and a last entry for a file,
+// with the protocol on screen (or last played) selected.
+func (m *Model) openProtocols() {
+	m.picker = picker{}
+	cur := ""
+	if v := m.play; v.run != nil {
+		cur = v.run.pr.Name
+	} else if v.last != nil {
+		cur = v.last.Name
+	}
+	for i, n := range presets.ProtocolNames() {
+		d := ""
+		if pr, err := presets.GetProtocol(n); err == nil {
+			d = fmt.Sprintf("%3d beats  %s", pr.TotalBeats(), pr.Description)
+		}
+		m.picker.names = append(m.picker.names, n)
+		m.picker.descs = append(m.picker.descs, d)
+		if n == cur {
+			m.picker.sel = i
+		}
+	}
+	m.picker.names = append(m.picker.names, protocolFileItem)
+	m.picker.descs = append(m.picker.descs, "a protocol file of your own (see `pvcouple protocol --help`)")
+	m.mode = modeProtocols
+}
+
+// protocolsKey moves in the list, plays the chosen protocol on Enter (or
+// asks for the file), closes on Esc.
+func (m *Model) protocolsKey(msg tea.KeyMsg) tea.Cmd {
+	k := m.keys
+	n := len(m.picker.names)
+	switch {
+	case msg.String() == "ctrl+c":
+		return tea.Quit
+	case key.Matches(msg, k.Up, k.Prev):
+		m.picker.sel = (m.picker.sel - 1 + n) % n
+	case key.Matches(msg, k.Down, k.Next):
+		m.picker.sel = (m.picker.sel + 1) % n
+	case key.Matches(msg, k.Cancel, k.Protocol, k.Quit):
+		m.mode = modeMain
+		m.setStatus("No protocol picked.")
+	case key.Matches(msg, k.Confirm):
+		m.mode = modeMain
+		name := m.picker.names[m.picker.sel]
+		if name == protocolFileItem {
+			return m.openPrompt(promptProtocol)
+		}
+		pr, err := presets.GetProtocol(name)
+		if err != nil {
+			m.setError(err.Error())
+			return nil
+		}
+		return m.startProtocol(pr)
+	}
+	return nil
+}
+
+// renderProtocols draws the protocol list as a framed box.
+func (m *Model) renderProtocols() string {
+	s := m.styles
+	var b strings.Builder
+	b.WriteString(s.Heading.Render("Play a protocol") + s.Dim.Render("  (invented, labelled so; from the levers now)") + "\n\n")
+	for i, n := range m.picker.names {
+		mark, name := "  ", fmt.Sprintf("%-20s", n)
+		if i == m.picker.sel {
+			mark, name = s.Selected.Render("▸ "), s.Selected.Render(name)
+		}
+		desc := ansi.Truncate(m.picker.descs[i], max(m.w-30, 10), "…")
+		if i == len(m.picker.names)-1 {
+			b.WriteString("\n")
+		}
+		b.WriteString(mark + name + s.Dim.Render(desc) + "\n")
+	}
+	b.WriteString("\n" + s.Dim.Render("↑/↓ choose · Enter play · Esc cancel"))
+	return s.Box.Render(b.String())
+}
