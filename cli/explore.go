@@ -73,6 +73,7 @@ func runExplore(env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
+	defer m.Close() // no background work (a map being solved) outlives the program
 	p := ui.NewProgram(m, tea.WithInput(env.Stdin), tea.WithOutput(env.Stdout))
 	if _, err := p.Run(); err != nil {
 		return fmt.Errorf("explorer: %w", err)

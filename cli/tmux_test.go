@@ -123,7 +123,11 @@ func TestExploreInTmux(t *testing.T) {
 
 	// Colour forced on a 16-colour terminal, Ctrl-C to quit.
 	p = startTmux(t, bin, 80, 24, "TERM=xterm", "--color", "always", "--preset", "hfref")
-	p.waitFor("scenario hfref", "SW/PVA")
+	s = p.waitFor("4 Coupling map", "SW/PVA")
+	// At 80 cells the four views leave room for the scenario's name only.
+	if top := strings.SplitN(s, "\n", 2)[0]; !strings.HasSuffix(strings.TrimRight(top, " "), " hfref") {
+		t.Errorf("the top bar does not name the scenario: %q", top)
+	}
 	if s := p.screen(true); !strings.Contains(s, "\x1b[") {
 		t.Errorf("--color always: no colour on screen")
 	}

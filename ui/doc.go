@@ -13,6 +13,12 @@
 // their end-systolic points and the ESPVR fitted so far, and the readouts
 // show the beat on screen against the run's starting steady beat.
 //
+// A recording opened with O is overlaid on the PV plane (overlay.go); the
+// readouts of every view but a playing protocol then count from the
+// recording's steady beat. The Coupling map view solves one metric over two
+// levers around the setting in the background (mapview.go, follow.go); its
+// keys m, x and y act there, and x stops a run in the Protocol view.
+//
 // It is a model for research and education planning, not for treating
 // patients.
 package ui

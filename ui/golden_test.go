@@ -41,6 +41,9 @@ func TestGolden(t *testing.T) {
 		{"play_120x40", 120, 40, append([]string{"P", "down", "down", "enter", " "}, repeat(".", 14)...)},
 		// rate-steps, playing (ticks held back) at beat 1 at twice real time.
 		{"play_start_120x40", 120, 40, []string{"3", "+", "P", "down", "down", "down", "enter"}},
+		// preload-reduction at beat 15 with a recording open: the readouts
+		// still count from the run's start.
+		{"play_rec_80x24", 80, 24, append([]string{"O", "ctrl+u", steadyCSV, "enter", "P", "down", "down", "enter", " "}, repeat(".", 14)...)},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			m := newTestModel(t, "normal", termenv.Ascii)

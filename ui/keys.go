@@ -26,10 +26,16 @@ type KeyMap struct {
 	StepFwd, StepBack key.Binding // one beat forward (computing it if new) or back
 	Faster, Slower    key.Binding // playback speed
 	Restart           key.Binding // play the protocol again from the levers now
-	Stop              key.Binding // end the run
+	Stop              key.Binding // end the run; x in the protocol view only (elsewhere x is MapX)
 
 	// Keys of the prompts, pickers and overlays.
 	Confirm, Cancel key.Binding
+
+	// Recording overlay and coupling map (see overlay.go, mapview.go). The
+	// map's keys act in the map view; elsewhere they say where the map is,
+	// except x in the protocol view, which is Stop there.
+	OpenRecording, ClearRecording key.Binding // overlay a recorded loop on the PV plane, and remove it
+	MapMetric, MapX, MapY         key.Binding // the map view's metric and levers (next; shifted: previous)
 }
 
 // DefaultKeyMap returns the explorer's keys.
@@ -63,6 +69,13 @@ func DefaultKeyMap() KeyMap {
 		Stop:      key.NewBinding(key.WithKeys("x"), key.WithHelp("x", "stop run")),
 		Confirm:   key.NewBinding(key.WithKeys("enter"), key.WithHelp("Enter", "confirm")),
 		Cancel:    key.NewBinding(key.WithKeys("esc"), key.WithHelp("Esc", "cancel/close")),
+
+		// Recording overlay and coupling map.
+		OpenRecording:  key.NewBinding(key.WithKeys("O"), key.WithHelp("O", "open recording")),
+		ClearRecording: key.NewBinding(key.WithKeys("C"), key.WithHelp("C", "clear recording")),
+		MapMetric:      key.NewBinding(key.WithKeys("m", "M"), key.WithHelp("m/M", "map metric")),
+		MapX:           key.NewBinding(key.WithKeys("x", "X"), key.WithHelp("x/X", "map x lever")),
+		MapY:           key.NewBinding(key.WithKeys("y", "Y"), key.WithHelp("y/Y", "map y lever")),
 	}
 }
 
@@ -76,7 +89,8 @@ func (k KeyMap) PlayHelp() []key.Binding {
 	return []key.Binding{k.PlayPause, k.StepFwd, k.StepBack, k.Faster, k.Slower, k.Restart, k.Stop, k.Protocol, k.NextView, k.Help, k.Quit}
 }
 
-// FullHelp is the help overlay, one group per list (see helpGroups).
+// FullHelp is the help overlay, one group per list (see helpGroups and
+// helpColumns).
 func (k KeyMap) FullHelp() [][]key.Binding {
 	return [][]key.Binding{
 		{k.Up, k.Down, k.BigUp, k.BigDown, k.Prev, k.Next},
@@ -84,5 +98,6 @@ func (k KeyMap) FullHelp() [][]key.Binding {
 		{k.Protocol, k.PlayPause, k.StepFwd, k.StepBack, k.Faster, k.Slower, k.Restart, k.Stop},
 		{k.Preset, k.Save, k.Open, k.NextView, k.GoView},
 		{k.Help, k.Cancel, k.Confirm, k.Quit},
+		{k.OpenRecording, k.ClearRecording, k.MapMetric, k.MapX, k.MapY}, // recording and map
 	}
 }

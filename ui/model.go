@@ -19,7 +19,7 @@ const (
 	modeMain      mode = iota // the levers
 	modeHelp                  // the help overlay
 	modePicker                // the preset picker
-	modePrompt                // a file path prompt (save or open)
+	modePrompt                // a file path prompt (see promptKind)
 	modeConfirm               // overwrite an existing file?
 	modeProtocols             // the protocol picker
 )
@@ -65,6 +65,10 @@ type Model struct {
 	// after returns a command that delivers msg after d: tea.Tick, or in
 	// tests a recorder that lets them hand each tick over themselves.
 	after func(d time.Duration, msg tea.Msg) tea.Cmd
+
+	// Recording overlay and background work (overlay.go, follow.go).
+	lastRecPath string // the recording last opened
+	closed      bool   // Close was called: no more background work
 }
 
 // New returns the explorer on scenario sc, solved to steady state (the

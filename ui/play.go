@@ -122,7 +122,7 @@ func (m *Model) playKey(msg tea.KeyMsg) (cmd tea.Cmd, ok bool) {
 	if !key.Matches(msg, k.PlayPause, k.StepFwd, k.StepBack, k.Faster, k.Slower, k.Restart, k.Stop) {
 		return nil, false
 	}
-	if m.views[m.cur] != view(v) {
+	if !m.onPlay() {
 		name := msg.String()
 		if key.Matches(msg, k.PlayPause) {
 			name = k.PlayPause.Help().Key
@@ -223,6 +223,9 @@ func (m *Model) playIndex() int {
 	}
 	return 0
 }
+
+// onPlay reports whether the protocol view is on screen.
+func (m *Model) onPlay() bool { return m.views[m.cur] == view(m.play) }
 
 // leavePlay pauses a playing run as its view leaves the screen: nothing
 // plays unseen.

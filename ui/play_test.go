@@ -355,12 +355,16 @@ func TestLeavingViewPauses(t *testing.T) {
 	}
 	// Playback keys elsewhere say where they act and do nothing.
 	keys(m, "2")
-	for _, k := range []string{" ", ".", ",", "R", "x"} {
+	for _, k := range []string{" ", ".", ",", "R"} {
 		before := v.cur
 		keys(m, k)
 		if !m.statusErr || !strings.Contains(m.status, "acts on protocols in view 3") || v.cur != before || v.run == nil {
 			t.Errorf("%q in view 2: %q", k, m.status)
 		}
+	}
+	// x is the map's outside the protocol view: it stops nothing.
+	if keys(m, "x"); v.run == nil || !strings.Contains(m.status, "coupling map shows: view 4") {
+		t.Errorf("x in view 2: run %v, %q", v.run, m.status)
 	}
 	if keys(m, " "); !strings.HasPrefix(m.status, "Space acts") {
 		t.Errorf("the hint does not name the key: %q", m.status)

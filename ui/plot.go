@@ -16,6 +16,11 @@ type series struct {
 	Closed bool // join the last point to the first (a loop)
 	Dotted bool // draw one dot in three, so the line reads as dotted without colour
 	Style  lipgloss.Style
+	// Mark, when not 0, draws the line as this rune in every cell it passes
+	// instead of braille dots: coarser, but it reads apart from the braille
+	// lines without colour (a recording overlaid on the model's loop). With
+	// Dotted, every other cell passed is marked.
+	Mark rune
 }
 
 // label is ASCII text placed on a plot at a data point.
@@ -281,11 +286,22 @@ func (p *plot) draw(f frame, s series) {
 	var last canvas.Point
 	have := false
 	count := 0
+	lastCell := canvas.Point{X: -1, Y: -1}
 	put := func(q canvas.Point) {
 		if have && q == last {
 			return
 		}
 		last, have = q, true
+		if s.Mark != 0 && s.Dotted { // dotted marks: every other cell passed
+			if c := (canvas.Point{X: floorDiv(q.X, 2), Y: floorDiv(q.Y, 4)}); c != lastCell {
+				lastCell = c
+				count++
+			}
+			if count%2 == 0 && q.X >= 0 && q.X < gw && q.Y >= 0 && q.Y < gh {
+				p.dots[(q.Y/4)*p.cw+q.X/2] |= brailleBit[q.X%2][q.Y%4]
+			}
+			return
+		}
 		if (!s.Dotted || count%3 == 0) && q.X >= 0 && q.X < gw && q.Y >= 0 && q.Y < gh {
 			p.dots[(q.Y/4)*p.cw+q.X/2] |= brailleBit[q.X%2][q.Y%4]
 		}
@@ -333,10 +349,15 @@ func (p *plot) draw(f frame, s series) {
 	}
 	idx := p.pal.index(s.Style)
 	for i, d := range p.dots {
-		if d != 0 {
+		switch {
+		case d == 0:
+			continue
+		case s.Mark != 0:
+			p.cells[i] = s.Mark
+		default:
 			p.cells[i] = runes.CombineBraillePatterns(p.cells[i], runes.BrailleBlockOffset|rune(d))
-			p.sty[i] = idx
 		}
+		p.sty[i] = idx
 	}
 }
 

@@ -34,15 +34,17 @@ func newPrompt(s *Styles) textinput.Model {
 type promptKind int
 
 const (
-	promptSave     promptKind = iota // save the scenario
-	promptOpen                       // open a scenario
-	promptProtocol                   // play a protocol file
+	promptSave      promptKind = iota // save the scenario
+	promptOpen                        // open a scenario
+	promptProtocol                    // play a protocol file
+	promptRecording                   // overlay a recording (overlay.go)
 )
 
 // promptVerb is what Enter does in the prompt, for its hint.
-var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens", promptProtocol: "plays"}
+var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens", promptProtocol: "plays",
+	promptRecording: "overlays"}
 
-// openPrompt asks for a path to save to, open from or play.
+// openPrompt asks for a path to save to, open from, play or overlay.
 func (m *Model) openPrompt(kind promptKind) tea.Cmd {
 	m.promptFor = kind
 	m.prompt.Reset()
@@ -60,13 +62,16 @@ func (m *Model) openPrompt(kind promptKind) tea.Cmd {
 	case promptProtocol:
 		m.prompt.Prompt = "Play protocol file: "
 		m.prompt.SetValue(m.lastProtocolPath)
+	case promptRecording:
+		m.prompt.Prompt = "Open recording (CSV): "
+		m.prompt.SetValue(m.lastRecPath)
 	}
 	m.prompt.CursorEnd()
 	m.mode = modePrompt
 	return m.prompt.Focus()
 }
 
-// promptKey edits the path; Enter saves or opens, Esc cancels.
+// promptKey edits the path; Enter does what the prompt is for, Esc cancels.
 func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 	switch {
 	case msg.String() == "ctrl+c":
@@ -91,6 +96,8 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 			m.open(path)
 		case promptProtocol:
 			return m.playFile(path)
+		case promptRecording:
+			m.openRecording(path)
 		}
 		return nil
 	}

@@ -15,6 +15,7 @@ import (
 // (ESV, ESP). The axes hold still while the loops stay inside them.
 type pvView struct {
 	s     *Styles
+	os    overlayStyles // a recording overlaid (overlayplot.go)
 	plot  *plot
 	w, h  int
 	f     frame
@@ -22,11 +23,12 @@ type pvView struct {
 
 	// The last render, reused while nothing it shows has changed.
 	cacheShown, cacheBase *model.Steady
+	cacheRec              *recording
 	cache                 string
 }
 
 func newPVView(s *Styles) *pvView {
-	v := &pvView{s: s, plot: newPlot(s, "V mL", "P mmHg")}
+	v := &pvView{s: s, os: newOverlayStyles(s), plot: newPlot(s, "V mL", "P mmHg")}
 	v.plot.legend = s.Loop.Render("━ now") + "  " + s.Baseline.Render("┄ baseline") + "  " +
 		s.ESPVR.Render("ESPVR") + " " + s.EDPVR.Render("EDPVR") + " " + s.Ea.Render("Ea")
 	return v
@@ -56,10 +58,16 @@ const pvHeadroom = 0.2
 
 // Render implements view.
 func (v *pvView) Render(st *state) string {
-	if st.shown == v.cacheShown && st.base == v.cacheBase && v.cache != "" {
+	if st.shown == v.cacheShown && st.base == v.cacheBase && st.rec == v.cacheRec && v.cache != "" {
 		return v.cache
 	}
+	// A recording takes the top line for its legend.
+	if ph := v.h - btoi(st.rec != nil); v.plot.h != ph {
+		v.plot.SetSize(v.w, ph)
+		v.fixed = false
+	}
 	b := emptyBounds()
+	recBounds(&b, st.rec)
 	for _, s := range []*model.Steady{st.shown, st.base} {
 		if s != nil {
 			b.add(s.VLV, s.PLV)
@@ -67,11 +75,12 @@ func (v *pvView) Render(st *state) string {
 		}
 	}
 	if !v.fixed || !v.f.holds(b) {
-		nx, ny := tickCounts(v.w, v.h)
+		nx, ny := tickCounts(v.w, v.plot.h)
 		v.f = fitFrame(b, nx, ny, pvHeadroom)
 		v.fixed = true
 	}
-	var ss []series
+	recUnder, recOver, recLabels := v.recSeries(st.rec)
+	ss := recUnder
 	var ls []label
 	if base := st.base; base != nil {
 		if st.shown == nil || base.Params.Ees != st.shown.Params.Ees || base.Params.V0 != st.shown.Params.V0 {
@@ -83,6 +92,7 @@ func (v *pvView) Render(st *state) string {
 		}
 		ss = append(ss, series{X: base.VLV, Y: base.PLV, Closed: true, Dotted: true, Style: v.s.Baseline})
 	}
+	ss = append(ss, recOver...)
 	if cur := st.shown; cur != nil {
 		p, m := cur.Params, cur.Metrics
 		es, ed := v.espvr(p, v.s.ESPVR, false), v.edpvr(p, v.s.EDPVR, false)
@@ -93,8 +103,11 @@ func (v *pvView) Render(st *state) string {
 			endLabel(v.f, ed, "EDPVR", v.s.EDPVR),
 			label{X: m.EDV, Y: 0, Text: "Ea", Style: v.s.Ea, At: []offset{{1, 0}, {1, -1}, {2, -1}, {-3, 0}}})
 	}
-	v.cache = v.plot.Render(v.f, ss, ls)
-	v.cacheShown, v.cacheBase = st.shown, st.base
+	v.cache = v.plot.Render(v.f, ss, append(ls, recLabels...))
+	if st.rec != nil {
+		v.cache = v.recLine(st.rec, v.w) + "\n" + v.cache
+	}
+	v.cacheShown, v.cacheBase, v.cacheRec = st.shown, st.base, st.rec
 	return v.cache
 }
 

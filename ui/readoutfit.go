@@ -27,13 +27,14 @@ const fitLines = 4
 // narrow: on the last line), and R² with the number of loops.
 func (p *readoutPanel) fitSection(f fitReadout, c columns) []string {
 	s := p.s
-	var head string
-	if p.wide {
-		head = fmt.Sprintf(" %-*s%*s  %-*s%*s", c.label, "ESPVR", c.val, "fit", c.unit, "unit", c.base, "model")
-	} else {
-		head = fmt.Sprintf(" %-*s%*s  %-*s", c.label, "ESPVR", c.val, "fit", c.unit, "unit")
+	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, "ESPVR", c.val, "fit", c.unit, "unit")
+	if c.base > 0 {
+		head += fmt.Sprintf("%*s", c.base, "model")
 	}
-	head += fmt.Sprintf(" %*s %*s", c.delta, "Δ", c.pct, "%")
+	head += fmt.Sprintf(" %*s", c.delta, "Δ")
+	if c.pct > 0 {
+		head += fmt.Sprintf(" %*s", c.pct, "%")
+	}
 	if !f.ok {
 		lines := []string{s.Heading.Render(padRight(" ESPVR fit", p.w))}
 		wrapped := strings.Split(ansi.Wrap(f.note, p.w-2, " "), "\n")
@@ -54,7 +55,7 @@ func (p *readoutPanel) fitSection(f fitReadout, c columns) []string {
 	row := func(label, unit string, fit, model float64, decimals int) string {
 		line := fmt.Sprintf(" %-*s%*s  ", c.label, label, c.val, fmtNum(fit, decimals))
 		dim := fmt.Sprintf("%-*s", c.unit, unit)
-		if p.wide {
+		if c.base > 0 {
 			dim += fmt.Sprintf("%*s", c.base, fmtNum(model, decimals))
 		}
 		return padRight(line+s.Dim.Render(dim)+p.change(fit, model, decimals, c), p.w)

@@ -45,8 +45,10 @@ func readouts() []readout {
 	return rs
 }
 
-// readoutPanel shows every readout now, at baseline, and the change. Wide,
-// it has columns now, unit, base, Δ and %; narrow, it drops the base column.
+// readoutPanel shows every readout now, against its reference (the
+// baseline, a recording or a run's start), and the change. Wide, it has
+// columns now, unit, reference, Δ and %; narrow, it drops the reference
+// column, except for a recording, where it drops % instead.
 // Below the readouts it may carry an ESPVR fit section (see fitReadout).
 type readoutPanel struct {
 	s    *Styles
@@ -63,19 +65,22 @@ type readoutPanel struct {
 // reference, with the headings of their columns, and maybe an ESPVR fit.
 type readoutSource struct {
 	now, base         *model.Metrics
-	nowHead, baseHead string // "now" and "base", or "beat" and "start"
-	fit               fitReadout
+	nowHead, baseHead string // "now" and "base", "beat" and "start", or "now" and "rec"
+	// rec is the recording base comes from, nil when base is not a
+	// recording's: narrow, the panel then shows the reference column (rec)
+	// and Δ in place of Δ and %. It keeps the cache apart for every
+	// recording opened.
+	rec *recording
+	fit fitReadout
 }
 
 // steadySource is the panel's usual source: the loop on screen against the
-// baseline.
+// recording's steady beat when a recording is overlaid (see reference),
+// else against the baseline.
 func steadySource(st *state) readoutSource {
-	src := readoutSource{nowHead: "now", baseHead: "base"}
+	src := readoutSource{nowHead: "now", baseHead: refName(st), rec: st.rec, base: reference(st)}
 	if st.shown != nil {
 		src.now = &st.shown.Metrics
-	}
-	if st.base != nil {
-		src.base = &st.base.Metrics
 	}
 	return src
 }
@@ -84,7 +89,7 @@ func newReadoutPanel(s *Styles) *readoutPanel {
 	return &readoutPanel{s: s, rows: readouts()}
 }
 
-// readoutWideW is the width at which the panel shows the base column.
+// readoutWideW is the width at which the panel shows the reference column.
 const readoutWideW = 50
 
 // SetSize sets the panel's size: h lines, and room more that a fit section
@@ -99,8 +104,12 @@ func (p *readoutPanel) SetSize(w, h, room int) {
 // columns are the widths of the panel's columns.
 type columns struct{ label, val, unit, base, delta, pct int }
 
-// cols returns the column widths: wide with a base column, narrow without.
-func (p *readoutPanel) cols() columns {
+// cols returns the column widths: wide with a base column, narrow without;
+// with a recording, narrow has a rec column in place of %.
+func (p *readoutPanel) cols(rec bool) columns {
+	if !p.wide && rec {
+		return columns{label: 6, val: 7, unit: 7, base: 7, delta: 6}
+	}
 	if p.wide {
 		return columns{label: 7, val: 8, unit: 8, base: 8, delta: 7, pct: 7}
 	}
@@ -122,13 +131,20 @@ func (p *readoutPanel) Render(src readoutSource) string {
 	if p.cache != "" && src == p.cacheSrc {
 		return p.cache
 	}
-	s, c := p.s, p.cols()
+	s, c := p.s, p.cols(src.rec != nil)
 	var lines []string
-	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, "", c.val, src.nowHead, c.unit, "unit")
+	title := ""
 	if p.wide {
-		head = fmt.Sprintf(" %-*s%*s  %-*s%*s", c.label, "Readout", c.val, src.nowHead, c.unit, "unit", c.base, src.baseHead)
+		title = "Readout"
 	}
-	head += fmt.Sprintf(" %*s %*s", c.delta, "Δ", c.pct, "%")
+	head := fmt.Sprintf(" %-*s%*s  %-*s", c.label, title, c.val, src.nowHead, c.unit, "unit")
+	if c.base > 0 {
+		head += fmt.Sprintf("%*s", c.base, src.baseHead)
+	}
+	head += fmt.Sprintf(" %*s", c.delta, "Δ")
+	if c.pct > 0 {
+		head += fmt.Sprintf(" %*s", c.pct, "%")
+	}
 	lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 	for _, r := range p.rows {
 		lines = append(lines, p.row(r, src, c))
@@ -170,7 +186,7 @@ func (p *readoutPanel) row(r readout, src readoutSource, c columns) string {
 		}
 	}
 	dim := fmt.Sprintf("%-*s", c.unit, r.spec.Unit)
-	if p.wide {
+	if c.base > 0 {
 		dim += fmt.Sprintf("%*s", c.base, fmtNum(base, r.decimals))
 	}
 	return padRight(label+val+cue+" "+s.Dim.Render(dim)+p.change(now, base, r.decimals, c), p.w)
@@ -180,7 +196,11 @@ func (p *readoutPanel) row(r readout, src readoutSource, c columns) string {
 func (p *readoutPanel) change(now, base float64, decimals int, c columns) string {
 	d, pct := model.Change(now, base)
 	ps := fmtPct(pct)
-	return fmt.Sprintf(" %*s %*s", c.delta, fmtDeltaBeside(d, decimals, c.delta, ps != "0"), c.pct, ps)
+	out := fmt.Sprintf(" %*s", c.delta, fmtDeltaBeside(d, decimals, c.delta, ps != "0"))
+	if c.pct > 0 { // narrow with a recording: no % column
+		out += fmt.Sprintf(" %*s", c.pct, ps)
+	}
+	return out
 }
 
 // fmtNum writes v with the given decimals, "—" when it is not a number.

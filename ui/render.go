@@ -148,12 +148,13 @@ func (m *Model) topBar() string {
 			left += s.Tab.Render(name)
 		}
 	}
-	right := s.Dim.Render("scenario ") + m.st.name + " "
-	gap := m.w - lipgloss.Width(left) - lipgloss.Width(right)
-	if gap < 1 {
-		return padRight(left, m.w)
+	// The scenario's name on the right, said as such where there is room.
+	for _, right := range []string{s.Dim.Render("scenario ") + m.st.name + " ", m.st.name + " "} {
+		if gap := m.w - lipgloss.Width(left) - lipgloss.Width(right); gap >= 1 {
+			return left + strings.Repeat(" ", gap) + right
+		}
 	}
-	return left + strings.Repeat(" ", gap) + right
+	return padRight(left, m.w)
 }
 
 // statusLine says what just happened, or holds the path prompt.
@@ -172,7 +173,7 @@ func (m *Model) statusLine() string {
 // protocol view.
 func (m *Model) keyLine() string {
 	keys := m.keys.ShortHelp()
-	if m.views[m.cur] == view(m.play) {
+	if m.onPlay() {
 		keys = m.keys.PlayHelp()
 	}
 	return padRight(" "+m.help.ShortHelpView(keys), m.w)

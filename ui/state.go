@@ -11,6 +11,8 @@ type state struct {
 	target model.Params  // the levers' setting; solved, or being solved
 	shown  *model.Steady // the last settled loop; shown.Params may lag target
 	base   *model.Steady // the baseline loop
+
+	rec *recording // a recording overlaid on the PV plane; nil when none (overlay.go)
 }
 
 // settled reports whether the loop on screen belongs to the levers' setting.

@@ -10,8 +10,8 @@ import (
 	"pvcouple/model"
 )
 
-// Update implements tea.Model.
-func (m *Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+// update handles one message (Update in follow.go wraps it).
+func (m *Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.resize(msg.Width, msg.Height)
@@ -61,6 +61,7 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 	k := m.keys
 	switch {
 	case key.Matches(msg, k.Quit):
+		m.Close() // no background work outlives the program
 		return tea.Quit
 	case key.Matches(msg, k.Help):
 		m.mode = modeHelp
@@ -105,6 +106,18 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		} else {
 			m.setError(fmt.Sprintf("There is no view %c: views 1 to %d.", msg.Runes[0], len(m.views)))
 		}
+	// Recording overlay (overlay.go).
+	case key.Matches(msg, k.OpenRecording):
+		return m.openPrompt(promptRecording)
+	case key.Matches(msg, k.ClearRecording):
+		m.clearRecording()
+	// x stops a run in the protocol view; elsewhere it is the map's.
+	case key.Matches(msg, k.Stop) && m.onPlay():
+		cmd, _ := m.playKey(msg)
+		return cmd
+	// Coupling map (mapview.go).
+	case key.Matches(msg, k.MapMetric, k.MapX, k.MapY):
+		return m.mapKey(msg)
 	default:
 		if cmd, ok := m.playKey(msg); ok {
 			return cmd
@@ -128,7 +141,7 @@ func (m *Model) selectLever(i int) {
 func (m *Model) showView(i int) {
 	i = (i%len(m.views) + len(m.views)) % len(m.views)
 	note := ""
-	if i != m.cur && m.views[m.cur] == view(m.play) {
+	if i != m.cur && m.onPlay() {
 		note = m.leavePlay()
 	}
 	m.cur = i

@@ -269,13 +269,23 @@ func TestBaselineUndoRedo(t *testing.T) {
 
 func TestViewsAndFit(t *testing.T) {
 	m := sized(t, "normal")
+	t.Cleanup(m.Close)
+	if n := len(m.views); n != 4 {
+		t.Fatalf("%d views, want 4: PV plane, beat traces, protocol, coupling map", n)
+	}
 	for _, c := range []struct {
 		key  string
 		want int
-	}{{"v", 1}, {"v", 2}, {"v", 0}, {"2", 1}, {"3", 2}, {"1", 0}} {
+	}{{"v", 1}, {"v", 2}, {"v", 3}, {"v", 0}, {"2", 1}, {"3", 2}, {"4", 3}, {"1", 0}} {
 		keys(m, c.key)
 		if m.cur != c.want {
 			t.Errorf("%s: view %d, want %d", c.key, m.cur, c.want)
+		}
+	}
+	for k, want := range map[string]string{"3": "[3 Protocol]", "4": "[4 Coupling map]"} {
+		keys(m, k)
+		if !strings.Contains(m.View(), want) {
+			t.Errorf("%s: %s is not on screen", k, want)
 		}
 	}
 	keys(m, "2")
@@ -283,7 +293,7 @@ func TestViewsAndFit(t *testing.T) {
 		t.Error("the trace view is not on screen")
 	}
 	keys(m, "9")
-	if m.cur != 1 || !m.statusErr || !strings.Contains(m.status, "no view 9: views 1 to 3") {
+	if m.cur != 1 || !m.statusErr || !strings.Contains(m.status, "no view 9: views 1 to 4") {
 		t.Errorf("key 9: view %d, %q", m.cur, m.status)
 	}
 	// The axes hold still for a nudge that stays inside them, and z fits them anew.

@@ -23,7 +23,7 @@ type view interface {
 
 // newViews returns the views in the order of the top bar.
 func newViews(s *Styles) []view {
-	return []view{newPVView(s), newTraceView(s), newPlayView(s)}
+	return []view{newPVView(s), newTraceView(s), newPlayView(s), newMapView(s)}
 }
 
 // readoutView is a view whose readouts are its own, such as a protocol
