@@ -71,6 +71,8 @@ type Solver struct {
 	y      []float64
 	valves ValveTimes
 
+	grid actGrid // activation on the sample grid
+
 	// Cache of the last LV pressure computed by rhs: the events are evaluated
 	// at the end point of each step, where rhs has just been evaluated (FSAL).
 	cacheT, cacheV, cacheP float64
@@ -236,11 +238,19 @@ func (s *Solver) sample(start, end State) (*Beat, error) {
 
 	b := &Beat{Params: *p, Start: start, End: end, Period: period, T: times, Valves: s.valves}
 	m := len(times)
-	buf := make([]float64, 7*m)
+	buf := make([]float64, 6*m)
 	b.PLV, b.VLV, b.PAO, b.QIn, b.QOut, b.DPdt = buf[0:m], buf[m:2*m], buf[2*m:3*m], buf[3*m:4*m], buf[4*m:5*m], buf[5*m:6*m]
 	s.dense.Eval(times, [][]float64{b.VLV, b.PAO}) // PAO holds Pc until converted below
+	grid := s.activationGrid(dt, n)
+	j := 0 // next time of the uniform grid
 	for i, t := range times {
-		e, de := s.act.EDeriv(t)
+		var e, de float64
+		if j < len(grid.e) && t == float64(j)*dt {
+			e, de = grid.e[j], grid.de[j]
+			j++
+		} else {
+			e, de = s.act.EDeriv(t)
+		}
 		v, pc := b.VLV[i], b.PAO[i]
 		plv, dpdv, dpde := p.pressureAndSlopes(e, v)
 		qin := math.Max(0, (p.FillingPressure-plv)/p.MitralResistance)
@@ -256,6 +266,27 @@ func (s *Solver) sample(start, end State) (*Beat, error) {
 	}
 	b.Metrics = m2
 	return b, nil
+}
+
+// actGrid holds e(t) and de/dt on the uniform sample grid of one beat period.
+type actGrid struct {
+	period, dt float64
+	e, de      []float64
+}
+
+// activationGrid returns the activation on the first n times of the grid
+// i·dt, computed once per heart rate and sample interval: the steady states
+// of a session share them, and evaluating them is a good part of sampling.
+func (s *Solver) activationGrid(dt float64, n int) *actGrid {
+	g := &s.grid
+	if g.period != s.act.Period || g.dt != dt || len(g.e) != n {
+		g.period, g.dt = s.act.Period, dt
+		g.e, g.de = make([]float64, n), make([]float64, n)
+		for i := range g.e {
+			g.e[i], g.de[i] = s.act.EDeriv(float64(i) * dt)
+		}
+	}
+	return g
 }
 
 // mergeTimes inserts the finite values of extra into the sorted times, skipping
