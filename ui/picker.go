@@ -35,17 +35,50 @@ func (m *Model) openPicker() {
 	m.mode = modePicker
 }
 
+// navigate moves the selection on the list keys (↑/↓, ←/→) and reports
+// whether msg was one of them.
+func (p *picker) navigate(msg tea.KeyMsg, k KeyMap) bool {
+	n := len(p.names)
+	switch {
+	case key.Matches(msg, k.Up, k.Prev):
+		p.sel = (p.sel - 1 + n) % n
+	case key.Matches(msg, k.Down, k.Next):
+		p.sel = (p.sel + 1) % n
+	default:
+		return false
+	}
+	return true
+}
+
+// render draws the list as a framed box: a heading with a note, one row per
+// entry (the selected one marked), names padded to nameWidth, descriptions
+// cut to fit width w, a blank line before entry gapBefore (−1 for none), and
+// the hint for Enter.
+func (p *picker) render(s *Styles, heading, note string, nameWidth, w, gapBefore int, enter string) string {
+	var b strings.Builder
+	b.WriteString(s.Heading.Render(heading) + s.Dim.Render("  "+note) + "\n\n")
+	for i, n := range p.names {
+		mark, name := "  ", fmt.Sprintf("%-*s", nameWidth, n)
+		if i == p.sel {
+			mark, name = s.Selected.Render("▸ "), s.Selected.Render(name)
+		}
+		desc := ansi.Truncate(p.descs[i], max(w-nameWidth-10, 10), "…")
+		if i == gapBefore {
+			b.WriteString("\n")
+		}
+		b.WriteString(mark + name + s.Dim.Render(desc) + "\n")
+	}
+	b.WriteString("\n" + s.Dim.Render("↑/↓ choose · Enter "+enter+" · Esc cancel"))
+	return s.Box.Render(b.String())
+}
+
 // pickerKey moves in the list, loads the chosen preset on Enter, closes on Esc.
 func (m *Model) pickerKey(msg tea.KeyMsg) tea.Cmd {
 	k := m.keys
-	n := len(m.picker.names)
 	switch {
 	case msg.String() == "ctrl+c":
 		return tea.Quit
-	case key.Matches(msg, k.Up, k.Prev):
-		m.picker.sel = (m.picker.sel - 1 + n) % n
-	case key.Matches(msg, k.Down, k.Next):
-		m.picker.sel = (m.picker.sel + 1) % n
+	case m.picker.navigate(msg, k):
 	case key.Matches(msg, k.Cancel, k.Preset, k.Quit):
 		m.mode = modeMain
 		m.setStatus("No preset picked.")
@@ -67,17 +100,5 @@ func (m *Model) pickerKey(msg tea.KeyMsg) tea.Cmd {
 
 // renderPicker draws the preset list as a framed box.
 func (m *Model) renderPicker() string {
-	s := m.styles
-	var b strings.Builder
-	b.WriteString(s.Heading.Render("Pick a preset") + s.Dim.Render("  (invented cases, labelled so)") + "\n\n")
-	for i, n := range m.picker.names {
-		mark, name := "  ", fmt.Sprintf("%-14s", n)
-		if i == m.picker.sel {
-			mark, name = s.Selected.Render("▸ "), s.Selected.Render(name)
-		}
-		desc := ansi.Truncate(m.picker.descs[i], max(m.w-24, 10), "…")
-		b.WriteString(mark + name + s.Dim.Render(desc) + "\n")
-	}
-	b.WriteString("\n" + s.Dim.Render("↑/↓ choose · Enter load · Esc cancel"))
-	return s.Box.Render(b.String())
+	return m.picker.render(m.styles, "Pick a preset", "(invented cases, labelled so)", 14, m.w, -1, "load")
 }

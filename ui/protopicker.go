@@ -2,11 +2,9 @@ package ui
 
 import (
 	"fmt"
-	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
-	"github.com/charmbracelet/x/ansi"
 
 	"pvcouple/presets"
 )
@@ -45,14 +43,10 @@ func (m *Model) openProtocols() {
 // asks for the file), closes on Esc.
 func (m *Model) protocolsKey(msg tea.KeyMsg) tea.Cmd {
 	k := m.keys
-	n := len(m.picker.names)
 	switch {
 	case msg.String() == "ctrl+c":
 		return tea.Quit
-	case key.Matches(msg, k.Up, k.Prev):
-		m.picker.sel = (m.picker.sel - 1 + n) % n
-	case key.Matches(msg, k.Down, k.Next):
-		m.picker.sel = (m.picker.sel + 1) % n
+	case m.picker.navigate(msg, k):
 	case key.Matches(msg, k.Cancel, k.Protocol, k.Quit):
 		m.mode = modeMain
 		m.setStatus("No protocol picked.")
@@ -72,22 +66,9 @@ func (m *Model) protocolsKey(msg tea.KeyMsg) tea.Cmd {
 	return nil
 }
 
-// renderProtocols draws the protocol list as a framed box.
+// renderProtocols draws the protocol list as a framed box, the file entry
+// set apart.
 func (m *Model) renderProtocols() string {
-	s := m.styles
-	var b strings.Builder
-	b.WriteString(s.Heading.Render("Play a protocol") + s.Dim.Render("  (invented, labelled so; from the levers now)") + "\n\n")
-	for i, n := range m.picker.names {
-		mark, name := "  ", fmt.Sprintf("%-20s", n)
-		if i == m.picker.sel {
-			mark, name = s.Selected.Render("▸ "), s.Selected.Render(name)
-		}
-		desc := ansi.Truncate(m.picker.descs[i], max(m.w-30, 10), "…")
-		if i == len(m.picker.names)-1 {
-			b.WriteString("\n")
-		}
-		b.WriteString(mark + name + s.Dim.Render(desc) + "\n")
-	}
-	b.WriteString("\n" + s.Dim.Render("↑/↓ choose · Enter play · Esc cancel"))
-	return s.Box.Render(b.String())
+	return m.picker.render(m.styles, "Play a protocol", "(invented, labelled so; from the levers now)", 20, m.w,
+		len(m.picker.names)-1, "play")
 }
