@@ -118,11 +118,7 @@ func TestBadInput(t *testing.T) {
 	os.WriteFile(broken, []byte("version: 1\nparams: [\n"), 0o644)
 	outOfRange := filepath.Join(dir, "range.yaml")
 	os.WriteFile(outOfRange, []byte("version: 1\nbase: normal\nparams:\n  ees_mmhg_per_ml: 40\n"), 0o644)
-	cases := []struct {
-		args []string
-		code int
-		want []string
-	}{
+	cases := []refusal{
 		{[]string{"solve", "--set", "hr=80"}, 2, []string{"hr", "unknown parameter", "heart_rate_bpm"}},
 		{[]string{"solve", "--set", "heart_rate_bpm=fast"}, 2, []string{"heart_rate_bpm", `"fast" is not a number`, "30 to 180 bpm"}},
 		{[]string{"solve", "--set", "heart_rate_bpm=NaN"}, 2, []string{"heart_rate_bpm", "not a finite number", "bpm"}},
@@ -139,6 +135,22 @@ func TestBadInput(t *testing.T) {
 		{[]string{"solve", "extra"}, 2, []string{"no arguments"}},
 		{[]string{"frobnicate"}, 2, []string{`unknown command "frobnicate"`, "solve"}},
 	}
+	checkRefusals(t, cases)
+}
+
+// refusal is a command line that must fail: its exit code and what stderr
+// must say.
+type refusal struct {
+	args []string
+	code int
+	want []string
+}
+
+// checkRefusals runs each command line and checks that it fails with the
+// exit code, writes nothing to stdout, names what stderr must name, and shows
+// no panic trace.
+func checkRefusals(t *testing.T, cases []refusal) {
+	t.Helper()
 	for _, c := range cases {
 		code, out, errs := runCLI(t, c.args...)
 		if code != c.code {

@@ -8,11 +8,7 @@ import (
 // Without a terminal the explorer refuses, names the reason and points to
 // the commands for scripts; bad options are reported first.
 func TestExploreNeedsTerminal(t *testing.T) {
-	for _, c := range []struct {
-		args []string
-		code int
-		want []string
-	}{
+	checkRefusals(t, []refusal{
 		{[]string{"explore"}, 1, []string{"needs a terminal", "pvcouple solve"}},
 		{[]string{"explore", "--color", "never", "--preset", "hfref"}, 1, []string{"needs a terminal"}},
 		{[]string{"explore", "--color", "pink"}, 2, []string{"--color", "pink", "auto, always, never"}},
@@ -20,20 +16,7 @@ func TestExploreNeedsTerminal(t *testing.T) {
 		{[]string{"explore", "--set", "heart_rate_bpm=500"}, 2, []string{"allowed 30 to 180 bpm"}},
 		{[]string{"explore", "extra"}, 2, []string{"no arguments"}},
 		{[]string{"--preset", "hfref"}, 1, []string{"needs a terminal"}}, // options without a command open the explorer
-	} {
-		code, out, errs := runCLI(t, c.args...)
-		if code != c.code {
-			t.Errorf("%v: exit %d, want %d (%s)", c.args, code, c.code, errs)
-		}
-		if out != "" {
-			t.Errorf("%v: wrote %q to stdout", c.args, out)
-		}
-		for _, w := range c.want {
-			if !strings.Contains(errs, w) {
-				t.Errorf("%v: stderr %q lacks %q", c.args, errs, w)
-			}
-		}
-	}
+	})
 }
 
 // pvcouple with no arguments opens the explorer; in a pipe it prints the

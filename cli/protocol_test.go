@@ -284,11 +284,7 @@ func TestProtocolBadInput(t *testing.T) {
 	os.WriteFile(deep, []byte("version: 1\nsteps:\n  - label: deep\n    scale: {filling_pressure_mmhg: 0.1}\n"), 0o644)
 	existing := filepath.Join(dir, "old.csv")
 	os.WriteFile(existing, []byte("old"), 0o644)
-	cases := []struct {
-		args []string
-		code int
-		want []string
-	}{
+	cases := []refusal{
 		{[]string{"protocol"}, 2, []string{"run, list or show"}},
 		{[]string{"protocol", "play"}, 2, []string{`"play"`, "run, list or show"}},
 		{[]string{"protocol", "run"}, 2, []string{"one protocol", "protocol list"}},
@@ -307,23 +303,7 @@ func TestProtocolBadInput(t *testing.T) {
 		{[]string{"protocol", "show", "nosuch"}, 1, []string{`unknown protocol "nosuch"`}},
 		{[]string{"protocol", "list", "x"}, 2, []string{"no arguments"}},
 	}
-	for _, c := range cases {
-		code, out, errs := runCLI(t, c.args...)
-		if code != c.code {
-			t.Errorf("%v: exit %d, want %d (stderr %q)", c.args, code, c.code, errs)
-		}
-		if out != "" {
-			t.Errorf("%v: wrote to stdout on error: %q", c.args, out)
-		}
-		for _, w := range c.want {
-			if !strings.Contains(errs, w) {
-				t.Errorf("%v: stderr %q lacks %q", c.args, errs, w)
-			}
-		}
-		if strings.Contains(errs, "goroutine") || strings.Contains(errs, "panic") {
-			t.Errorf("%v: panic trace: %s", c.args, errs)
-		}
-	}
+	checkRefusals(t, cases)
 	if data, _ := os.ReadFile(existing); string(data) != "old" {
 		t.Errorf("existing samples file changed to %q", data)
 	}
