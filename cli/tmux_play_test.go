@@ -2,8 +2,6 @@ package cli
 
 import (
 	"fmt"
-	"os/exec"
-	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
@@ -15,16 +13,7 @@ import (
 // afterload-challenge in colour at 80×24, paused, stepped and stopped. It
 // skips without tmux and with -short.
 func TestPlayInTmux(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds the binary and runs tmux")
-	}
-	if _, err := exec.LookPath("tmux"); err != nil {
-		t.Skip("no tmux")
-	}
-	bin := filepath.Join(t.TempDir(), "pvcouple")
-	if out, err := exec.Command("go", "build", "-o", bin, "pvcouple").CombinedOutput(); err != nil {
-		t.Fatalf("build: %v\n%s", err, out)
-	}
+	bin := buildForTmux(t)
 
 	p := startTmux(t, bin, 120, 40, "NO_COLOR=1 TERM=xterm-256color")
 	p.waitFor("[1 PV plane]", "SW/PVA")

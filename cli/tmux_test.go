@@ -85,16 +85,7 @@ func startTmux(t *testing.T, bin string, w, h int, env string, args ...string) *
 // shows the change, asks for a larger window, redraws after a resize, shows
 // the help, and quits on q. It skips without tmux and with -short.
 func TestExploreInTmux(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds the binary and runs tmux")
-	}
-	if _, err := exec.LookPath("tmux"); err != nil {
-		t.Skip("no tmux")
-	}
-	bin := filepath.Join(t.TempDir(), "pvcouple")
-	if out, err := exec.Command("go", "build", "-o", bin, "pvcouple").CombinedOutput(); err != nil {
-		t.Fatalf("build: %v\n%s", err, out)
-	}
+	bin := buildForTmux(t)
 
 	p := startTmux(t, bin, 120, 40, "NO_COLOR=1 TERM=xterm-256color")
 	p.waitFor("[1 PV plane]", "SW/PVA", "Filling pressure", "ESPVR")
@@ -147,4 +138,21 @@ func readoutFields(screen, label string) []string {
 		}
 	}
 	return nil
+}
+
+// buildForTmux skips the test without tmux or with -short, and otherwise
+// builds the binary and returns its path.
+func buildForTmux(t *testing.T) string {
+	t.Helper()
+	if testing.Short() {
+		t.Skip("builds the binary and runs tmux")
+	}
+	if _, err := exec.LookPath("tmux"); err != nil {
+		t.Skip("no tmux")
+	}
+	bin := filepath.Join(t.TempDir(), "pvcouple")
+	if out, err := exec.Command("go", "build", "-o", bin, "pvcouple").CombinedOutput(); err != nil {
+		t.Fatalf("build: %v\n%s", err, out)
+	}
+	return bin
 }

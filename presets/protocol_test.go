@@ -1,7 +1,6 @@
 package presets
 
 import (
-	"errors"
 	"regexp"
 	"strings"
 	"testing"
@@ -199,18 +198,6 @@ func TestProtocolStrictLoadingErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		_, err := ParseProtocol([]byte(c.doc), "p.yaml")
-		if err == nil {
-			t.Errorf("%s: accepted", c.name)
-			continue
-		}
-		var fe *FileError
-		if !errors.As(err, &fe) {
-			t.Errorf("%s: error %T is not a *FileError: %v", c.name, err, err)
-		}
-		for _, w := range c.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", c.name, err.Error(), w)
-			}
-		}
+		checkRefused(t, c.name, err, c.want)
 	}
 }

@@ -83,18 +83,25 @@ func TestStrictLoadingErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		_, err := ParseScenario([]byte(c.doc), "x.yaml")
-		if err == nil {
-			t.Errorf("%s: accepted", c.name)
-			continue
-		}
-		var fe *FileError
-		if !errors.As(err, &fe) {
-			t.Errorf("%s: error %T is not a *FileError: %v", c.name, err, err)
-		}
-		for _, w := range c.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%s: %q lacks %q", c.name, err.Error(), w)
-			}
+		checkRefused(t, c.name, err, c.want)
+	}
+}
+
+// checkRefused checks that err refuses a file as a *FileError whose message
+// holds every string of want.
+func checkRefused(t *testing.T, name string, err error, want []string) {
+	t.Helper()
+	if err == nil {
+		t.Errorf("%s: accepted", name)
+		return
+	}
+	var fe *FileError
+	if !errors.As(err, &fe) {
+		t.Errorf("%s: error %T is not a *FileError: %v", name, err, err)
+	}
+	for _, w := range want {
+		if !strings.Contains(err.Error(), w) {
+			t.Errorf("%s: %q lacks %q", name, err.Error(), w)
 		}
 	}
 }
