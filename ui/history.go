@@ -32,25 +32,19 @@ func (h *history) push(s snapshot) {
 
 // back returns the state to restore on undo, recording cur for redo; ok is
 // false when there is nothing to undo.
-func (h *history) back(cur snapshot) (snapshot, bool) {
-	for len(h.undo) > 0 {
-		s := h.undo[len(h.undo)-1]
-		h.undo = h.undo[:len(h.undo)-1]
-		if s != cur {
-			h.redo = append(h.redo, cur)
-			return s, true
-		}
-	}
-	return snapshot{}, false
-}
+func (h *history) back(cur snapshot) (snapshot, bool) { return move(&h.undo, &h.redo, cur) }
 
 // forward returns the state to restore on redo, recording cur for undo.
-func (h *history) forward(cur snapshot) (snapshot, bool) {
-	for len(h.redo) > 0 {
-		s := h.redo[len(h.redo)-1]
-		h.redo = h.redo[:len(h.redo)-1]
+func (h *history) forward(cur snapshot) (snapshot, bool) { return move(&h.redo, &h.undo, cur) }
+
+// move pops the newest state of from that differs from cur and pushes cur on
+// to; ok is false when from holds no such state.
+func move(from, to *[]snapshot, cur snapshot) (snapshot, bool) {
+	for len(*from) > 0 {
+		s := (*from)[len(*from)-1]
+		*from = (*from)[:len(*from)-1]
 		if s != cur {
-			h.undo = append(h.undo, cur)
+			*to = append(*to, cur)
 			return s, true
 		}
 	}
