@@ -228,7 +228,7 @@ func (r *protocolRun) object() object {
 }
 
 // espvrFit fits the ESPVR to the run's loops by the iterated
-// maximal-elastance method (SCIENCE.md §6), as a study would from the same
+// maximal-elastance method (docs/science.md §6), as a study would from the same
 // recording. It returns nil and the reason when the loops cannot share one
 // ESPVR (the protocol changes Ees or V0) or the fit fails.
 func (r *protocolRun) espvrFit() (any, string) {

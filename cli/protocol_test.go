@@ -108,7 +108,7 @@ func TestProtocolRunCSV(t *testing.T) {
 
 // JSON carries the same per-beat keys with the names of the protocol and the
 // scenario, the steps, and an ESPVR fitted to the run's loops that finds the
-// model's own Ees and V0 within 3 % (SCIENCE.md §6, iterated fit).
+// model's own Ees and V0 within 3 % (docs/science.md §6, iterated fit).
 func TestProtocolRunJSON(t *testing.T) {
 	code, out, errs := runCLI(t, "protocol", "run", "preload-reduction", "--preset", "hypertensive", "--format", "json")
 	if code != 0 {
@@ -189,7 +189,7 @@ func readSamples(t *testing.T, path string) (tm, p, v []float64) {
 // one uniform 1 kHz clock across the run, no sample repeated at a beat
 // boundary. Cut into beats at the onsets of the per-beat output, the
 // recording alone gives back the model's ESPVR by the iterated fit
-// (SCIENCE.md §6) within 3 %.
+// (docs/science.md §6) within 3 %.
 func TestProtocolRunSamples(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "run.csv")
 	rows := protocolCSV(t, "preload-reduction", "--preset", "vasodilated", "--samples", path)

@@ -3,7 +3,7 @@ package model
 import "math"
 
 // Double-Hill activation, parameter set A attributed to Stergiopulos, Meister &
-// Westerhof 1996 (Am J Physiol 270:H2050) [cited in SCIENCE.md §1]: time is
+// Westerhof 1996 (Am J Physiol 270:H2050) [cited in docs/science.md §1]: time is
 // normalised by Tmax, the time to peak elastance.
 const (
 	hillAlpha1 = 0.7
@@ -31,7 +31,7 @@ var (
 //
 // with k chosen numerically so that max e = 1. Systole shortens with heart
 // rate through Tmax = 0.2 + 0.15·Tc (Tc = beat period, s), the scaling cited
-// with set A in SCIENCE.md §1.
+// with set A in docs/science.md §1.
 type Activation struct {
 	Period float64 // beat period Tc, s
 	Tmax   float64 // time scale of contraction, s

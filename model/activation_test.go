@@ -18,7 +18,7 @@ func TestActivationShape(t *testing.T) {
 		a := NewActivation(hr)
 		tc := 60 / hr
 		if a.Tmax != 0.2+0.15*tc {
-			t.Errorf("HR %g: Tmax %g, want 0.2 + 0.15·Tc = %g [cited, SCIENCE.md §1]", hr, a.Tmax, 0.2+0.15*tc)
+			t.Errorf("HR %g: Tmax %g, want 0.2 + 0.15·Tc = %g [cited, docs/science.md §1]", hr, a.Tmax, 0.2+0.15*tc)
 		}
 		if e := a.E(a.Peak); math.Abs(e-1) > 1e-12 {
 			t.Errorf("HR %g: peak e = %.15f, want 1", hr, e)
@@ -42,7 +42,7 @@ func TestActivationShape(t *testing.T) {
 			}
 		}
 	}
-	// Set A uncorrected peaks at 0.99606 at t/Tmax = 0.9972 (SCIENCE.md §1,
+	// Set A uncorrected peaks at 0.99606 at t/Tmax = 0.9972 (docs/science.md §1,
 	// derived) with its usual scale factor k = 1.55 [memory]; at 75 bpm
 	// Mynard's correction is below 1e-7, so the peak stays there.
 	a := NewActivation(75)
@@ -50,6 +50,6 @@ func TestActivationShape(t *testing.T) {
 		t.Errorf("peak at t/Tmax = %.5f, want 0.9972", r)
 	}
 	if k := 1.55 / a.k; math.Abs(k-0.99606) > 5e-5 {
-		t.Errorf("unnormalised peak %.5f, want 0.99606 (SCIENCE.md §1, derived)", k)
+		t.Errorf("unnormalised peak %.5f, want 0.99606 (docs/science.md §1, derived)", k)
 	}
 }

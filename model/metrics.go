@@ -66,7 +66,7 @@ func Unknown() Known {
 	return Known{n, n, n, n, n, n, n}
 }
 
-// Constants of the energetics (SCIENCE.md §4): VO2 per beat = vo2Slope·PVA +
+// Constants of the energetics (docs/science.md §4): VO2 per beat = vo2Slope·PVA +
 // vo2Intercept, mL O2 with PVA in mmHg·mL (Khalafbeigui, Suga & Sagawa 1979,
 // Am J Physiol 237:H566).
 const (
@@ -83,7 +83,7 @@ const tauWindowAboveEDP = 5
 // End-diastole is the sample of largest volume before the peak of dP/dt
 // (the largest of the beat when it is periodic), or the first sample when
 // b.EDAtStart is set. End-systole is the sample of
-// maximal P/(V − V0) (SCIENCE.md §6), among samples with V − V0 above 2 % of
+// maximal P/(V − V0) (docs/science.md §6), among samples with V − V0 above 2 % of
 // EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
 // maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
 // the loop area. PE = ½·ESP·(ESV − V0) less the area under the EDPVR from V0 to
@@ -91,7 +91,7 @@ const tauWindowAboveEDP = 5
 // least-squares slope of ln P against t from peak −dP/dt until pressure falls
 // to EDP + 5 mmHg, zero asymptote (Weiss, Frederiksen & Weisfeldt 1976). Wall
 // stress is the thick-wall meridional stress of a sphere holding the cavity
-// volume inside the wall volume (Grossman et al. 1975, SCIENCE.md §7).
+// volume inside the wall volume (Grossman et al. 1975, docs/science.md §7).
 func Measure(b BeatSamples, k Known) (Metrics, error) {
 	n := len(b.T)
 	if n < 8 {

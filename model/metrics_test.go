@@ -27,7 +27,7 @@ func idealLoop(edv, esv, pes, period float64) BeatSamples {
 	return b
 }
 
-// SCIENCE.md §3 worked case [derived]: Ees 2.0, V0 10, EDV 120, HR 75,
+// docs/science.md §3 worked case [derived]: Ees 2.0, V0 10, EDV 120, HR 75,
 // Ea = R/T = 1.25 → SV 67.692 mL, Pes 84.615 mmHg, ESV 52.308 mL, EF 0.5641,
 // PE 1789.9 mmHg·mL. A loop with that end-systolic corner must measure so.
 func TestMeasureWorkedCouplingCase(t *testing.T) {
@@ -57,7 +57,7 @@ func TestMeasureWorkedCouplingCase(t *testing.T) {
 	if !math.IsNaN(m.MAP) || !math.IsNaN(m.EDStress) || !math.IsNaN(m.EaRT) {
 		t.Errorf("unknowns should give NaN: MAP %g, stress %g, Ea≈R/T %g", m.MAP, m.EDStress, m.EaRT)
 	}
-	// For a linear ESPVR with EDP ≈ 0: SW/PVA = 1/(1 + ½·Ea/Ees) (SCIENCE.md §3, derived).
+	// For a linear ESPVR with EDP ≈ 0: SW/PVA = 1/(1 + ½·Ea/Ees) (docs/science.md §3, derived).
 	if want := 1 / (1 + 0.5*ea/ees); math.Abs(m.Efficiency-want) > 1e-4 {
 		t.Errorf("efficiency %.5f, want %.5f", m.Efficiency, want)
 	}
@@ -67,7 +67,7 @@ func TestMeasureWorkedCouplingCase(t *testing.T) {
 	}
 }
 
-// SCIENCE.md §7 check [derived]: P 117, r 2.4, h 0.8 → σm 200.4 ×10³ dyn/cm².
+// docs/science.md §7 check [derived]: P 117, r 2.4, h 0.8 → σm 200.4 ×10³ dyn/cm².
 func TestWallStressGrossmanCheck(t *testing.T) {
 	sphere := func(r float64) float64 { return 4 * math.Pi * r * r * r / 3 }
 	v := sphere(2.4)

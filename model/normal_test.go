@@ -5,7 +5,7 @@ import (
 	"testing"
 )
 
-// The normal ranges follow SCIENCE.md §3 and §8; the derived ones are
+// The normal ranges follow docs/science.md §3 and §8; the derived ones are
 // recomputed here from the published means and SDs.
 func TestNormalRanges(t *testing.T) {
 	want := []struct {
@@ -19,13 +19,13 @@ func TestNormalRanges(t *testing.T) {
 		{"esv_ml", 42 - 2*12, 50 + 2*16, "Hudsmith"},
 		// Petersen et al. 2017 (UK Biobank): EF 58–61 ± 5 %.
 		{"ef_pct", 58 - 2*5, 61 + 2*5, "Petersen"},
-		// SCIENCE.md §3 from memory: Ea 1.2–2.0, Ees 1.5–3, Ea/Ees 0.5–0.9.
+		// docs/science.md §3 from memory: Ea 1.2–2.0, Ees 1.5–3, Ea/Ees 0.5–0.9.
 		{"ea_mmhg_per_ml", 1.2, 2.0, "memory"},
 		{"ees_mmhg_per_ml", 1.5, 3, "memory"},
 		{"ea_ees_ratio", 0.5, 0.9, "memory"},
-		// SCIENCE.md §8 from memory: LVEDP above 16 mmHg is raised (Paulus 2007).
+		// docs/science.md §8 from memory: LVEDP above 16 mmHg is raised (Paulus 2007).
 		{"edp_mmhg", 4, 16, "Paulus"},
-		// SCIENCE.md §3 derived: SW/PVA = 1/(1 + ½·Ea/Ees) at Ea/Ees 0.9 and 0.5, to two decimals.
+		// docs/science.md §3 derived: SW/PVA = 1/(1 + ½·Ea/Ees) at Ea/Ees 0.9 and 0.5, to two decimals.
 		{"efficiency", math.Round(100/(1+0.5*0.9)) / 100, 1 / (1 + 0.5*0.5), "derived"},
 	}
 	for _, w := range want {

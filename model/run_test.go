@@ -62,7 +62,7 @@ func TestTransientHoldStaysAtSteadyState(t *testing.T) {
 // After a step change of the levers the beats are a genuine transient that
 // settles on the periodic steady state of the new levers, which SteadyState
 // finds by a different method (Newton shooting on the beat map). The arterial
-// pressure relaxes by about exp(−T/(R·C)) per beat (SCIENCE.md §2), about 0.6
+// pressure relaxes by about exp(−T/(R·C)) per beat (docs/science.md §2), about 0.6
 // here, so 60 beats leave a difference far below the tolerance.
 func TestTransientSettlesOnNewSteadyState(t *testing.T) {
 	p := normalParams(t)

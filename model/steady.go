@@ -218,7 +218,7 @@ func broyden(j *[2][2]float64, dx, df [2]float64) {
 // coldGuess estimates the start-of-beat state without integrating: the
 // ventricle filled to the filling pressure, and the arterial pressure of a
 // two-element Windkessel fed by the stroke volume of the coupling estimate
-// SV = (EDV − V0)·Ees/(Ees + Ea) with Ea ≈ R_total/T (SCIENCE.md §3).
+// SV = (EDV − V0)·Ees/(Ees + Ea) with Ea ≈ R_total/T (docs/science.md §3).
 func (p Params) coldGuess() State {
 	period := 60 / p.HeartRate
 	edv := p.FilledVolume()

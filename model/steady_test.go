@@ -93,7 +93,7 @@ func TestWarmStartAgreesAndIsCheaper(t *testing.T) {
 }
 
 // Three-element Windkessel with the aortic valve shut: Pc − Pv decays as
-// exp(−t/(R·C)) exactly (SCIENCE.md §2, derived). Proximal aortic pressure
+// exp(−t/(R·C)) exactly (docs/science.md §2, derived). Proximal aortic pressure
 // equals Pc while there is no flow.
 func TestWindkesselDiastolicDecayIsExponential(t *testing.T) {
 	for _, name := range []string{"normal", "hfref", "exercise"} {
@@ -125,7 +125,7 @@ func TestWindkesselDiastolicDecayIsExponential(t *testing.T) {
 }
 
 // In steady state the mean flow through R equals the mean outflow of the
-// ventricle, so mean Pc = Pv + Q̄·R exactly (SCIENCE.md §2, derived), and the
+// ventricle, so mean Pc = Pv + Q̄·R exactly (docs/science.md §2, derived), and the
 // aortic outflow over a beat equals the volume ejected, EDV − minimal volume
 // (mass balance). SV = EDV − ESV is a little smaller: end-systole (maximal
 // P/(V−V0)) comes just before the end of ejection.
@@ -156,7 +156,7 @@ func TestSteadyStateMassBalance(t *testing.T) {
 	}
 }
 
-// The coupling identity SV = (EDV − V0)·Ees/(Ees + Ea) (SCIENCE.md §3,
+// The coupling identity SV = (EDV − V0)·Ees/(Ees + Ea) (docs/science.md §3,
 // derived from ESP = Ees·(ESV − V0) = Ea·SV) holds for the model's own beats
 // because end-systole lies on the ESPVR.
 func TestCouplingIdentityOnModelBeats(t *testing.T) {
@@ -171,7 +171,7 @@ func TestCouplingIdentityOnModelBeats(t *testing.T) {
 }
 
 // Published ranges for the resting adult. Sources are named per row; rows
-// marked [memory] come from SCIENCE.md items recalled, not checked.
+// marked [memory] come from docs/science.md items recalled, not checked.
 func TestNormalPresetInPublishedRanges(t *testing.T) {
 	m := solve(t, normalParams(t)).Metrics
 	rows := []struct {
@@ -186,10 +186,10 @@ func TestNormalPresetInPublishedRanges(t *testing.T) {
 		{"EDP mmHg", m.EDP, 6, 16, "LVEDP ≈ 10, abnormal > 16 (Paulus 2007) [memory]"},
 		{"MAP mmHg", m.MAP, 70, 105, "resting adult MAP [common practice, no source]"},
 		{"tau ms", m.Tau, 0, 48, "τ > 48 ms is abnormal (Paulus 2007) [memory]"},
-		{"dP/dt max mmHg/s", m.DPdtMax, 1200, 2000, "SCIENCE.md §8 [memory]"},
-		{"Ees mmHg/mL", m.Ees, 1.5, 3, "healthy humans, SCIENCE.md §3 [memory]"},
-		{"Ea mmHg/mL", m.Ea, 1.2, 2.0, "healthy humans, SCIENCE.md §3 [memory]"},
-		{"Ea/Ees", m.EaEes, 0.5, 0.9, "healthy humans, SCIENCE.md §3 [memory]"},
+		{"dP/dt max mmHg/s", m.DPdtMax, 1200, 2000, "docs/science.md §8 [memory]"},
+		{"Ees mmHg/mL", m.Ees, 1.5, 3, "healthy humans, docs/science.md §3 [memory]"},
+		{"Ea mmHg/mL", m.Ea, 1.2, 2.0, "healthy humans, docs/science.md §3 [memory]"},
+		{"Ea/Ees", m.EaEes, 0.5, 0.9, "healthy humans, docs/science.md §3 [memory]"},
 	}
 	for _, r := range rows {
 		if !(r.got >= r.lo && r.got <= r.hi) {

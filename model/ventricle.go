@@ -7,7 +7,7 @@ import "math"
 //	P = e·Ees·(V − V0) + (1 − e)·A·(exp(B·(V − V0)) − 1),
 //
 // the blend of a linear ESPVR and an exponential EDPVR used in lumped models
-// (cited in SCIENCE.md §1 as Gohean et al. 2013, ASAIO J).
+// (cited in docs/science.md §1 as Gohean et al. 2013, ASAIO J).
 func (p *Params) Pressure(e, v float64) float64 {
 	x := v - p.V0
 	return e*p.Ees*x + (1-e)*p.passive(x)

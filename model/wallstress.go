@@ -3,11 +3,11 @@ package model
 import "math"
 
 // mmHgToKdynCm2 converts mmHg to 10³ dyn/cm² (1 mmHg = 1333 dyn/cm²), the
-// factor 1.332 of Grossman et al.'s formula as given in SCIENCE.md §7.
+// factor 1.332 of Grossman et al.'s formula as given in docs/science.md §7.
 const mmHgToKdynCm2 = 1.332
 
 // wallStress is the thick-wall meridional stress (Grossman, Jones & McLaurin
-// 1975, J Clin Invest; SCIENCE.md §7) in 10³ dyn/cm²,
+// 1975, J Clin Invest; docs/science.md §7) in 10³ dyn/cm²,
 //
 //	σ = 1.332·P·r / [2h·(1 + h/(2r))],
 //

@@ -52,7 +52,7 @@ func TestBuiltinValuesCiteTheirSource(t *testing.T) {
 }
 
 // The disease presets must show what their names promise. hfref: EF < 40 %
-// and Ea/Ees > 1.5 (SCIENCE.md §3 [memory]: HFrEF Ea/Ees 1.5–4); hfpef: EF ≥ 50 %
+// and Ea/Ees > 1.5 (docs/science.md §3 [memory]: HFrEF Ea/Ees 1.5–4); hfpef: EF ≥ 50 %
 // with EDP above the 16 mmHg cut-off (Paulus 2007 [memory]).
 func TestDiseasePresetsMeetTheirDefinitions(t *testing.T) {
 	m := func(name string) model.Metrics {

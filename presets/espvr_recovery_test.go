@@ -9,11 +9,11 @@ import (
 )
 
 // The preload-reduction run recovers the model's own Ees and V0 by the
-// iterated maximal-elastance fit of SCIENCE.md §6, within 3 % as the study
+// iterated maximal-elastance fit of docs/science.md §6, within 3 % as the study
 // plan asks. The fit sees only what a catheter records (pressure and volume
 // of the occlusion beats) and starts from V0 = 0, not from the answer. In a
 // pure elastance model the end-systolic points lie on P = Ees·(V − V0)
-// [derived, SCIENCE.md §6], so anything beyond sampling error is a fault of
+// [derived, docs/science.md §6], so anything beyond sampling error is a fault of
 // the run or of the fit.
 func TestPreloadReductionRecoversESPVR(t *testing.T) {
 	pr, err := GetProtocol("preload-reduction")

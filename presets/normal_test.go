@@ -7,7 +7,7 @@ import (
 )
 
 // The resting adult promises the resting adult's values: solved, none of its
-// measurements lies outside model.NormalRanges (SCIENCE.md §3 and §8), so the
+// measurements lies outside model.NormalRanges (docs/science.md §3 and §8), so the
 // explorer opens on it with no readout marked.
 func TestNormalPresetWithinNormalRanges(t *testing.T) {
 	sc, err := Get(Default)

@@ -263,7 +263,7 @@ func TestPlayToTheEnd(t *testing.T) {
 
 // Playing preload-reduction to the end recovers the model's Ees from the
 // end-systolic points of the loops, as the iterated maximal-elastance
-// method does in a pure elastance model (SCIENCE.md §6): the fitted Ees on
+// method does in a pure elastance model (docs/science.md §6): the fitted Ees on
 // screen is within 3 % of the model's, on two scenarios with different Ees.
 func TestPreloadReductionFitsEesOnScreen(t *testing.T) {
 	for _, preset := range []string{"normal", "hfref"} {

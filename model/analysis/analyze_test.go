@@ -11,7 +11,7 @@ import (
 
 // Recordings made by the model's own beat-by-beat runs (a caval occlusion of
 // our own) with noise and a volume offset added must give back the Ees that
-// was set within 5 % (the bound; SCIENCE.md §6 [derived]: in a pure
+// was set within 5 % (the bound; docs/science.md §6 [derived]: in a pure
 // elastance model the iterated fit recovers Ees and V0). Clean recordings
 // must give it within 0.5 % at any allowed sampling rate.
 func TestAnalyzeRecoversEes(t *testing.T) {
@@ -256,7 +256,7 @@ func TestSingleBeatPdOnModel(t *testing.T) {
 }
 
 // The quadratic ESPVR on a linear model returns the line: curvature near 0,
-// Ees and V0 as set (SCIENCE.md §6 [derived]).
+// Ees and V0 as set (docs/science.md §6 [derived]).
 func TestQuadraticESPVROnLinearModel(t *testing.T) {
 	p := presetParams(t, "normal")
 	_, rec := makeRecording(t, occlusion(p), ReadOptions{})

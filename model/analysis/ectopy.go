@@ -8,7 +8,7 @@ import (
 	"gonum.org/v1/gonum/stat"
 )
 
-// Rules for dropping beats (common practice, no source; SCIENCE.md §6 drops
+// Rules for dropping beats (common practice, no source; docs/science.md §6 drops
 // ectopic and post-ectopic beats). Each compares a beat with the median of
 // its neighbours (up to neighbours on each side), so a slow change such as a
 // caval occlusion is not taken for ectopy.

@@ -22,7 +22,7 @@ type EDPVRFit struct {
 }
 
 // FitEDPVR fits P = A·(exp(B·(V − v0)) − 1) to end-diastolic points by least
-// squares (SCIENCE.md §1 for the form, §6 for the method). For a given B the
+// squares (docs/science.md §1 for the form, §6 for the method). For a given B the
 // best A is linear; B is found by Nelder–Mead on ln B. It needs at least
 // MinESPVRBeats points spread over at least 5 mL.
 func FitEDPVR(points []Point, v0 float64) (EDPVRFit, error) {

@@ -40,7 +40,7 @@ const MinESPVRBeats = 5
 const MinESPVRSpan = 1.0
 
 // FitESPVR fits P = Ees·(V − V0) to the end-systolic points of the loops by the
-// iterated maximal-elastance method (SCIENCE.md §6): guess V0, take each loop's
+// iterated maximal-elastance method (docs/science.md §6): guess V0, take each loop's
 // point of maximal P/(V − V0), fit a line by least squares, take its volume
 // intercept as the new V0, and repeat until V0 moves less than 1e-6 mL. In a
 // pure elastance model this recovers Ees and V0. v0Guess starts the iteration

@@ -13,7 +13,7 @@ import (
 )
 
 // FitESPVRQuadratic fits P = Ees·(V − V0) + Curvature·(V − V0)² to the
-// end-systolic points, iterated like FitESPVR (SCIENCE.md §6, the quadratic
+// end-systolic points, iterated like FitESPVR (docs/science.md §6, the quadratic
 // alternative): the points of maximal P/(V − V0) for the current V0, a
 // least-squares quadratic P = a + b·V + c·V², and its root nearest the points
 // on their left as the new V0. Ees is the slope at the mean end-systolic

@@ -25,7 +25,7 @@ func rectLoop(edv, esv, pes float64) model.BeatSamples {
 }
 
 // Loops whose end-systolic corners lie on P = Ees·(V − V0): the iterated fit
-// must return that line exactly (SCIENCE.md §6, derived), from any start.
+// must return that line exactly (docs/science.md §6, derived), from any start.
 func TestFitESPVRRecoversLine(t *testing.T) {
 	const ees, v0 = 2.2, 12.0
 	var beats []model.BeatSamples

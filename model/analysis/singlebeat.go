@@ -7,7 +7,7 @@ import (
 )
 
 // ChenEes is the single-beat estimate of end-systolic elastance of Chen et
-// al. 2001 (JACC 38:2028; SCIENCE.md §5):
+// al. 2001 (JACC 38:2028; docs/science.md §5):
 //
 //	Ees(sb) = [Pd − ENd(est)·Pes] / [ENd(est)·SV],  Pes = 0.9·Ps
 //	ENd(avg) = 0.35695 − 7.2266t + 74.249t² − 307.39t³ + 684.54t⁴ − 856.92t⁵ + 571.95t⁶ − 159.1t⁷,  t = tNd
@@ -40,7 +40,7 @@ func Chen2001(ps, pd, sv, ef, tnd float64) (ChenEes, error) {
 }
 
 // KlotzEDPVR is the single-beat end-diastolic pressure–volume relation of
-// Klotz et al. 2006 (Am J Physiol Heart; 2007 Nat Protoc; SCIENCE.md §5),
+// Klotz et al. 2006 (Am J Physiol Heart; 2007 Nat Protoc; docs/science.md §5),
 // P = Alpha·V^Beta, estimated from one end-diastolic point.
 type KlotzEDPVR struct {
 	V0    float64 // mL, EDV·(0.6 − 0.006·EDP)

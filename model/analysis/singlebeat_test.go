@@ -5,13 +5,13 @@ import (
 	"testing"
 )
 
-// near reports whether got rounds to want at the digits SCIENCE.md states:
+// near reports whether got rounds to want at the digits docs/science.md states:
 // within half a unit of the last stated decimal place.
 func near(got, want float64, decimals int) bool {
 	return math.Abs(got-want) <= 0.5*math.Pow(10, -float64(decimals))
 }
 
-// Check values of SCIENCE.md §5 [derived from the formulas of Chen et al.
+// Check values of docs/science.md §5 [derived from the formulas of Chen et al.
 // 2001, JACC 38:2028]: Ps 120, Pd 80, SV 70, EF 0.60, tNd 0.20 →
 // ENd(avg) 0.27809, ENd(est) 0.342530, Ees 1.79366.
 func TestChen2001WorkedValue(t *testing.T) {
@@ -29,7 +29,7 @@ func TestChen2001WorkedValue(t *testing.T) {
 	}
 }
 
-// Check values of SCIENCE.md §5 [derived from the formulas of Klotz et al.
+// Check values of docs/science.md §5 [derived from the formulas of Klotz et al.
 // 2006, Am J Physiol Heart]: EDV 120, EDP 10 → V0 64.8, V30 144.7303,
 // β 5.86300; EDV 200, EDP 25 → V30 204.2836, β 5.24115.
 func TestKlotz2006WorkedValues(t *testing.T) {

@@ -25,7 +25,7 @@ func resistanceSweep(t *testing.T, filling float64) (ratio, sw, eff []float64) {
 	return ratio, sw, eff
 }
 
-// Sunagawa, Maughan & Sagawa 1985 (Circ Res 56:586; SCIENCE.md §3) [paper]:
+// Sunagawa, Maughan & Sagawa 1985 (Circ Res 56:586; docs/science.md §3) [paper]:
 // with a linear ESPVR and a fixed end-diastolic volume, stroke work
 // SW = Ees·(EDV−V0)²·r/(1+r)², r = Ea/Ees, is largest at r = 1.
 //
@@ -59,7 +59,7 @@ func TestStrokeWorkPeaksNearEaEesOne(t *testing.T) {
 	t.Logf("stroke work peaks at Ea/Ees = %.3f (SW %.0f mmHg·mL)", ratio[best], sw[best])
 }
 
-// Mechanical efficiency SW/PVA falls as Ea/Ees rises (SCIENCE.md §3, from
+// Mechanical efficiency SW/PVA falls as Ea/Ees rises (docs/science.md §3, from
 // SW/PVA = 1/(1 + ½·Ea/Ees) [derived]), across the whole sweep.
 func TestEfficiencyFallsWithEaEes(t *testing.T) {
 	ratio, _, eff := resistanceSweep(t, 10)
@@ -73,7 +73,7 @@ func TestEfficiencyFallsWithEaEes(t *testing.T) {
 	}
 }
 
-// For a linear ESPVR and EDP ≈ 0, SW/PVA = 1/(1 + ½·Ea/Ees) (SCIENCE.md §3
+// For a linear ESPVR and EDP ≈ 0, SW/PVA = 1/(1 + ½·Ea/Ees) (docs/science.md §3
 // [derived]: SW = ESP·SV and PE = ½·ESP·(ESV−V0), with ESP = Ea·SV =
 // Ees·(ESV−V0)). The check runs where EDP is small: filling pressure 2 mmHg,
 // so EDP = 2 mmHg against an ESP of 28–130 mmHg.

@@ -8,7 +8,7 @@ until the start-of-beat state repeats (plain repetition, not pvcouple's
 Newton shooting), measures the last beat with numpy/scipy and prints the same
 JSON shape: params, metrics, timing.
 
-Equations (see model/doc.go and ../../../shared/SCIENCE.md):
+Equations (see model/doc.go and docs/science.md):
   e(t)  double-Hill, Stergiopulos et al. 1996 set A, Mynard et al. 2012 end
         correction, normalised numerically to peak 1; Tmax = 0.2 + 0.15*Tc
   P_lv  = e*Ees*(V-V0) + (1-e)*A*(exp(B*(V-V0))-1)
