@@ -44,7 +44,7 @@ const DefaultSampleInterval = 1e-3
 // maxSwitches caps valve events in one beat; a heart has four.
 const maxSwitches = 24
 
-// isovolumicMaxStep is the largest step, as a fraction of Tmax, while both
+// isovolumicMaxStep is the largest step, as a fraction of the time to peak elastance, while both
 // valves are shut (about 16 ms at rest).
 const isovolumicMaxStep = 0.05
 
@@ -151,7 +151,7 @@ func (s *Solver) integrate(x State) (State, error) {
 		if s.mitral || s.aortic {
 			s.ode.SetMaxStep(0)
 		} else {
-			s.ode.SetMaxStep(isovolumicMaxStep * s.act.Tmax)
+			s.ode.SetMaxStep(isovolumicMaxStep * s.act.TPeak)
 		}
 		res, err := s.ode.Solve(t, period, y, s.events, s.dense.Add)
 		if err != nil {

@@ -10,7 +10,8 @@ import (
 // them. A value that cannot be measured from the beat at hand (say MAP from an
 // LV-only recording) is NaN. Units are those of the keys in MetricSpecs.
 type Metrics struct {
-	EDV, ESV, SV float64 // mL
+	EDV, ESV, SV float64 // mL; SV is EDV less the smallest volume of the beat
+	VMin         float64 // smallest volume of the beat, mL
 	EF           float64 // %
 	EDP, ESP     float64 // mmHg
 	Ea, Ees      float64 // mmHg/mL
@@ -23,7 +24,9 @@ type Metrics struct {
 	SBP, DBP     float64 // mmHg
 	SW, PE, PVA  float64 // mmHg·mL
 	Efficiency   float64 // SW/PVA, fraction
-	VO2          float64 // mL O2 per beat
+	VO2          float64 // mL O2 per beat, whole LV
+	VO2Per100g   float64 // mL O2 per beat per 100 g of LV
+	MechEff      float64 // SW/VO2 in joules, fraction
 	DPdtMax      float64 // mmHg/s
 	DPdtMin      float64 // mmHg/s
 	Tau          float64 // ms
@@ -66,12 +69,17 @@ func Unknown() Known {
 	return Known{n, n, n, n, n, n, n}
 }
 
-// Constants of the energetics (docs/science.md §4): VO2 per beat = vo2Slope·PVA +
-// vo2Intercept, mL O2 with PVA in mmHg·mL (Khalafbeigui, Suga & Sagawa 1979,
-// Am J Physiol 237:H566).
+// Constants of the energetics (docs/science.md §4). Per 100 g of LV, VO2 per
+// beat = vo2Slope·PVA + vo2Intercept, mL O2 with PVA in mmHg·mL per 100 g
+// (Khalafbeigui, Suga & Sagawa 1979, Am J Physiol 237:H566) [paper]; the LV's
+// mass is its wall volume times the density of myocardium [memory]. An mmHg·mL
+// is 1.333e-4 J and a mL of O2 yields about 20 J [memory].
 const (
-	vo2Slope     = 1.53e-5
-	vo2Intercept = 0.019
+	vo2Slope          = 1.75e-5
+	vo2Intercept      = 0.031
+	myocardialDensity = 1.05     // g/mL
+	joulePerMmHgML    = 1.333e-4 // J
+	joulePerMLO2      = 20       // J
 )
 
 // tauWindowAboveEDP ends the Weiss fit where pressure falls to EDP plus this
@@ -87,7 +95,9 @@ const tauWindowAboveEDP = 5
 // EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
 // maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
 // the loop area. PE = ½·ESP·(ESV − V0) less the area under the EDPVR from V0 to
-// ESV when the EDPVR is known; PVA = SW + PE (Suga). τ is Weiss's: the
+// ESV when the EDPVR is known; PVA = SW + PE (Suga). VO2 follows from PVA by
+// Suga's per-mass relation and SW/VO2 is the mechanical efficiency, both NaN
+// when the wall volume is unknown. τ is Weiss's: the
 // least-squares slope of ln P against t from peak −dP/dt until pressure falls
 // to EDP + 5 mmHg, zero asymptote (Weiss, Frederiksen & Weisfeldt 1976). Wall
 // stress is the thick-wall meridional stress of a sphere holding the cavity
@@ -157,7 +167,8 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	}
 	m.ESV, m.ESP, m.TES = b.V[ies], b.P[ies], b.T[ies]-b.T[0]
 
-	m.SV = m.EDV - m.ESV
+	m.VMin, _ = extremesLow(b.V)
+	m.SV = m.EDV - m.VMin
 	m.EF = 100 * m.SV / m.EDV
 	m.Ea = m.ESP / m.SV
 	m.Ees = k.Ees
@@ -184,7 +195,10 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	}
 	m.PVA = m.SW + m.PE
 	m.Efficiency = m.SW / m.PVA
-	m.VO2 = vo2Slope*m.PVA + vo2Intercept
+	mass := myocardialDensity * k.WallVolume
+	m.VO2Per100g = vo2Slope*m.PVA*100/mass + vo2Intercept
+	m.VO2 = m.VO2Per100g * mass / 100
+	m.MechEff = m.SW * joulePerMmHgML / (m.VO2 * joulePerMLO2)
 
 	m.DPdtMax, m.DPdtMin = dpdt[imax], dpdt[imin]
 	m.Tau = weissTau(b.T, b.P, imin, m.EDP+tauWindowAboveEDP)
@@ -201,6 +215,17 @@ func timeMean(t, y []float64) float64 {
 		s += 0.5 * (y[i] + y[i-1]) * (t[i] - t[i-1])
 	}
 	return s / (t[len(t)-1] - t[0])
+}
+
+// extremesLow returns the smallest value of y and its index.
+func extremesLow(y []float64) (lo float64, at int) {
+	lo = y[0]
+	for i, v := range y {
+		if v < lo {
+			lo, at = v, i
+		}
+	}
+	return lo, at
 }
 
 func extremes(y []float64) (hi, lo float64) {

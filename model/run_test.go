@@ -190,9 +190,8 @@ func TestTransientErrorsAndStopping(t *testing.T) {
 // A beat's stroke volume is what it ejects, also in a transient: when the
 // filling pressure rises at a beat's onset, the extra filling at the end of
 // that beat feeds the next beat and must not count as this beat's EDV. The
-// check is mass balance: SV against the integral of aortic flow, which
-// exceeds SV by about 1 % because end-systole (maximal P/(V − V0)) comes a
-// little before the end of ejection (README, known limits).
+// check is mass balance: SV against the integral of aortic flow [derived];
+// 0.2 % covers the trapezoidal sum's error at the edges of ejection.
 func TestTransientStrokeVolumeIsWhatIsEjected(t *testing.T) {
 	p := normalParams(t)
 	up, down := p, p
@@ -210,7 +209,7 @@ func TestTransientStrokeVolumeIsWhatIsEjected(t *testing.T) {
 			for i := 1; i < len(rb.T); i++ {
 				ejected += 0.5 * (rb.QOut[i] + rb.QOut[i-1]) * (rb.T[i] - rb.T[i-1])
 			}
-			if d := (ejected - rb.Metrics.SV) / ejected; d < 0 || d > 0.02 {
+			if d := (ejected - rb.Metrics.SV) / ejected; math.Abs(d) > 0.002 {
 				t.Errorf("FP %g, beat %d: SV %.2f mL, ejected %.2f mL (EDV %.2f, end volume %.2f)",
 					rb.Params.FillingPressure, rb.Index+1, rb.Metrics.SV, ejected, rb.Metrics.EDV, rb.End.V)
 			}

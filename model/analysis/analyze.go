@@ -189,7 +189,7 @@ func (a *Analysis) measure() {
 		}
 		if a.V0Source == SourceVolumeFloor {
 			nan := math.NaN()
-			m.PE, m.PVA, m.Efficiency, m.VO2 = nan, nan, nan, nan
+			m.PE, m.PVA, m.Efficiency, m.VO2, m.VO2Per100g, m.MechEff = nan, nan, nan, nan, nan, nan
 		}
 		b.Metrics, b.Measured = m, true
 	}

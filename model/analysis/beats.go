@@ -182,5 +182,5 @@ func nanMetrics() model.Metrics {
 	nan := math.NaN()
 	return model.Metrics{EDV: nan, ESV: nan, SV: nan, EF: nan, EDP: nan, ESP: nan, Ea: nan, Ees: nan, EaEes: nan,
 		EaRT: nan, EaSegers: nan, HR: nan, CO: nan, MAP: nan, SBP: nan, DBP: nan, SW: nan, PE: nan, PVA: nan,
-		Efficiency: nan, VO2: nan, DPdtMax: nan, DPdtMin: nan, Tau: nan, EDStress: nan, ESStress: nan, TED: nan, TES: nan}
+		Efficiency: nan, VO2: nan, VO2Per100g: nan, MechEff: nan, VMin: nan, DPdtMax: nan, DPdtMin: nan, Tau: nan, EDStress: nan, ESStress: nan, TED: nan, TES: nan}
 }

@@ -9,8 +9,9 @@ Newton shooting), measures the last beat with numpy/scipy and prints the same
 JSON shape: params, metrics, timing.
 
 Equations (see model/doc.go and docs/science.md):
-  e(t)  double-Hill, Stergiopulos et al. 1996 set A, Mynard et al. 2012 end
-        correction, normalised numerically to peak 1; Tmax = 0.2 + 0.15*Tc
+  e(t)  double-Hill, Stergiopulos et al. 1996 set B, Mynard et al. 2012 end
+        correction, normalised numerically to peak 1; peak elastance at
+        t_peak = 0.8*QS2, QS2 = 0.546 - 0.0021*HR s (Weissler et al. 1968)
   P_lv  = e*Ees*(V-V0) + (1-e)*A*(exp(B*(V-V0))-1)
   Q_in  = (P_la - P_lv)/R_mv   while the mitral valve is open
   Q_out = (P_lv - P_c)/(R_av + Zc) while the aortic valve is open
@@ -24,14 +25,16 @@ import time
 import numpy as np
 from scipy import integrate, optimize, stats
 
-ALPHA1, N1, ALPHA2, N2 = 0.7, 1.9, 1.17, 21.9
+N1, N2 = 1.32, 21.9
 
 
 class Activation:
     def __init__(self, hr):
         self.period = 60.0 / hr
-        self.tmax = 0.2 + 0.15 * self.period
-        self.c = 1.0 / (1.0 + (self.period / (ALPHA2 * self.tmax)) ** N2)
+        tpeak = 0.8 * (0.546 - 0.0021 * hr)
+        self.a1 = 0.708 * tpeak
+        self.a2 = 1.677 * self.a1
+        self.c = 1.0 / (1.0 + (self.period / self.a2) ** N2)
         self.k = 1.0
         res = optimize.minimize_scalar(lambda t: -self.e(t), bounds=(1e-6, self.period),
                                        method="bounded", options={"xatol": 1e-12})
@@ -40,8 +43,8 @@ class Activation:
     def e(self, t):
         if t <= 0:
             return 0.0
-        g1 = (t / (ALPHA1 * self.tmax)) ** N1
-        g2 = (t / (ALPHA2 * self.tmax)) ** N2
+        g1 = (t / self.a1) ** N1
+        g2 = (t / self.a2) ** N2
         return self.k * g1 / (1 + g1) * (1 / (1 + g2) - self.c)
 
     def de(self, t, h=1e-7):
@@ -149,7 +152,7 @@ def measure(model, segments, events):
     ratio = np.where(x > floor, plv / np.where(x > floor, x, 1.0), -np.inf)
     ies = int(np.argmax(ratio))
     esv, esp = vs[ies], plv[ies]
-    sv = edv - esv
+    sv = edv - float(np.min(vs))  # the volume ejected
     ea = esp / sv
     hr = 60.0 / period
     r_total = p["resistance_mmhg_s_per_ml"] + p["zc_mmhg_s_per_ml"]
@@ -157,6 +160,9 @@ def measure(model, segments, events):
     xe = esv - v0
     pe = 0.5 * esp * xe - (A * math.expm1(B * xe) / B - A * xe)
     pva = sw + pe
+    mass = 1.05 * p["wall_volume_ml"]  # g
+    vo2_100g = 1.75e-5 * pva * 100 / mass + 0.031  # Khalafbeigui, Suga & Sagawa 1979, per 100 g
+    vo2 = vo2_100g * mass / 100
     imin = int(np.argmin(dpdt))
     win = []
     for i in range(imin, len(ts)):
@@ -179,7 +185,8 @@ def measure(model, segments, events):
         "ea_segers_mmhg_per_ml": -0.13 + 1.02 * r_total / period + 0.31 / p["compliance_ml_per_mmhg"],
         "hr_bpm": hr, "co_l_per_min": sv * hr / 1000, "map_mmhg": integrate.trapezoid(pao, ts) / period,
         "sbp_mmhg": float(np.max(pao)), "dbp_mmhg": float(np.min(pao)), "sw_mmhg_ml": sw, "pe_mmhg_ml": pe,
-        "pva_mmhg_ml": pva, "efficiency": sw / pva, "vo2_ml_per_beat": 1.53e-5 * pva + 0.019,
+        "pva_mmhg_ml": pva, "efficiency": sw / pva, "vo2_ml_per_beat": vo2,
+        "vo2_ml_per_beat_100g": vo2_100g, "mechanical_efficiency": sw * 1.333e-4 / (vo2 * 20),
         "dpdt_max_mmhg_per_s": float(np.max(dpdt)), "dpdt_min_mmhg_per_s": float(np.min(dpdt)), "tau_ms": tau,
         "ed_wall_stress_kdyn_cm2": stress(edp, edv), "es_wall_stress_kdyn_cm2": stress(esp, esv),
     }
