@@ -14,7 +14,7 @@ func init() {
 }
 
 func runParams(env *Env, args []string) error {
-	fs := newFlags(env, "params", "params", "Lists every parameter with its unit, its value in the "+presets.Default+" preset and its allowed range.")
+	fs := newFlags(env, "params", "params", "Lists every parameter with its unit, its value in the "+presets.Default+" preset, its allowed range and\nthe circulation it acts in (held, closed or both). The default preset's stressed volume is the one\nthat gives its filling pressure as the mean left-atrial pressure.")
 	if pos, err := parse(fs, args); err != nil {
 		return err
 	} else if len(pos) > 0 {
@@ -25,9 +25,9 @@ func runParams(env *Env, args []string) error {
 		return err
 	}
 	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(w, "KEY\tUNIT\tDEFAULT\tMIN\tMAX\tMEANING")
+	fmt.Fprintln(w, "KEY\tUNIT\tDEFAULT\tMIN\tMAX\tCIRCULATION\tMEANING")
 	for _, s := range model.Specs {
-		fmt.Fprintf(w, "%s\t%s\t%g\t%g\t%g\t%s\n", s.Key, s.Unit, s.Get(def.Params), s.Min, s.Max, s.Meaning)
+		fmt.Fprintf(w, "%s\t%s\t%.4g\t%g\t%g\t%s\t%s\n", s.Key, s.Unit, s.Get(def.Params), s.Min, s.Max, s.Circulations(), s.Meaning)
 	}
 	return w.Flush()
 }

@@ -2,7 +2,7 @@ package cli
 
 import (
 	"encoding/csv"
-	"fmt"
+	"strings"
 
 	"pvcouple/model"
 )
@@ -11,16 +11,35 @@ func init() {
 	register(command{"loop", "print the samples of one steady beat (the pressure–volume loop)", runLoop})
 }
 
-// loopColumns are the columns of `pvcouple loop`.
+// loopColumns are the columns of `pvcouple loop` in every circulation.
 var loopColumns = []string{"t_s", "p_lv_mmhg", "v_lv_ml", "p_ao_mmhg", "q_in_ml_s", "q_out_ml_s"}
 
-func loopSeries(b *model.Beat) [][]float64 {
-	return [][]float64{b.T, b.PLV, b.VLV, b.PAO, b.QIn, b.QOut}
+// loopTable returns the column names and series of a beat: loopColumns, and
+// in a closed circulation the pressure and volume of every other compartment
+// (the volumes sum to the blood volume at every sample) and the right heart's
+// valve flows.
+func loopTable(b *model.Beat) ([]string, [][]float64) {
+	names := append([]string(nil), loopColumns...)
+	series := [][]float64{b.T, b.PLV, b.VLV, b.PAO, b.QIn, b.QOut}
+	if b.Params.Circulation != model.Closed {
+		return names, series
+	}
+	for c := model.SystemicArteries; c < model.NumCompartments; c++ {
+		names = append(names, "p_"+model.CompartmentKeys[c]+"_mmhg")
+		series = append(series, b.P[c])
+	}
+	for c := model.SystemicArteries; c < model.NumCompartments; c++ {
+		names = append(names, "v_"+model.CompartmentKeys[c]+"_ml")
+		series = append(series, b.V[c])
+	}
+	names = append(names, "q_tricuspid_ml_s", "q_pulmonic_ml_s")
+	series = append(series, b.QTricuspid, b.QPulmonic)
+	return names, series
 }
 
 func runLoop(env *Env, args []string) error {
 	fs := newFlags(env, "loop", "loop [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format csv|json]",
-		"Prints one steady beat sampled at 1 kHz plus the valve events, from activation onset\nto the start of the next beat. Columns: "+fmt.Sprint(loopColumns)+".")
+		"Prints one steady beat sampled at 1 kHz plus the valve events, from activation onset\nto the start of the next beat. Columns: "+strings.Join(loopColumns, ",")+"; in the closed\ncirculation also p_KEY_mmhg and v_KEY_ml of every compartment (sa systemic arteries,\nsv systemic veins, ra, rv, pa pulmonary arteries, pv pulmonary veins, la) and the\ntricuspid and pulmonary valve flows. The volumes sum to the blood volume at every sample.")
 	var sel selection
 	sel.addFlags(fs)
 	format := fs.String("format", "csv", "output `FORMAT`: csv or json")
@@ -42,10 +61,10 @@ func runLoop(env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	series := loopSeries(st.Beat)
+	columns, series := loopTable(st.Beat)
 	if *format == "json" {
 		samples := object{}
-		for i, c := range loopColumns {
+		for i, c := range columns {
 			col := make([]number, len(series[i]))
 			for j, v := range series[i] {
 				col[j] = number(v)
@@ -54,13 +73,14 @@ func runLoop(env *Env, args []string) error {
 		}
 		return writeJSON(env, object{
 			{"scenario", sc.Name},
-			{"params", paramsObject(sc.Params)},
+			{"circulation", sc.Params.Circulation.String()},
+			{"params", paramsObject(st.Settled())},
 			{"period_s", number(st.Period)},
 			{"samples", samples},
 		})
 	}
 	w := csv.NewWriter(env.Stdout)
-	if err := w.Write(loopColumns); err != nil {
+	if err := w.Write(columns); err != nil {
 		return err
 	}
 	row := make([]string, len(series))

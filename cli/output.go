@@ -51,11 +51,16 @@ func (n number) MarshalJSON() ([]byte, error) {
 	return strconv.AppendFloat(nil, f, 'g', -1, 64), nil
 }
 
-// paramsObject lists every parameter by key.
+// paramsObject lists every parameter by key; the stressed volume, which a
+// held circulation does not have, is null there.
 func paramsObject(p model.Params) object {
 	o := make(object, 0, len(model.Specs))
 	for _, s := range model.Specs {
-		o = append(o, field{s.Key, number(s.Get(p))})
+		v := s.Get(p)
+		if s.Key == "stressed_volume_ml" && p.Circulation != model.Closed {
+			v = math.NaN()
+		}
+		o = append(o, field{s.Key, number(v)})
 	}
 	return o
 }

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"pvcouple/model"
 	"pvcouple/presets"
 )
 
@@ -94,13 +95,13 @@ func runProtocolList(env *Env, args []string) error {
 		return usagef("protocol list takes no arguments")
 	}
 	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(w, "NAME\tBEATS\tDESCRIPTION")
+	fmt.Fprintln(w, "NAME\tBEATS HELD\tBEATS CLOSED\tDESCRIPTION")
 	for _, n := range presets.ProtocolNames() {
 		pr, err := presets.GetProtocol(n)
 		if err != nil {
 			return err
 		}
-		fmt.Fprintf(w, "%s\t%d\t%s\n", n, pr.TotalBeats(), pr.Description)
+		fmt.Fprintf(w, "%s\t%d\t%d\t%s\n", n, pr.TotalBeats(model.Held), pr.TotalBeats(model.Closed), pr.Description)
 	}
 	return w.Flush()
 }

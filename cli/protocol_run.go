@@ -196,9 +196,11 @@ func (r *protocolRun) writeCSV(env *Env) error {
 
 func (r *protocolRun) object() object {
 	levers := r.levers()
-	steps := make([]object, len(r.protocol.Steps))
+	steps := make([]object, 0, len(r.protocol.Steps))
 	for j, s := range r.protocol.Steps {
-		steps[j] = object{{"step", s.Label}, {"kind", string(s.Kind)}, {"first_beat", r.plan.First[j] + 1}, {"beats", s.Beats}}
+		if r.plan.First[j] >= 0 {
+			steps = append(steps, object{{"step", s.Label}, {"kind", string(s.Kind)}, {"first_beat", r.plan.First[j] + 1}, {"beats", s.Beats}})
+		}
 	}
 	beats := make([]object, len(r.beats))
 	for i, b := range r.beats {

@@ -43,7 +43,7 @@ func TestProtocolListAndShow(t *testing.T) {
 		t.Fatalf("help has no example protocol:\n%s", out)
 	}
 	pr, err := presets.ParseProtocol([]byte(out[i:j+len("      beats: 5\n")]), "help")
-	if err != nil || len(pr.Steps) != 4 || pr.TotalBeats() != 23 {
+	if err != nil || len(pr.Steps) != 4 || pr.TotalBeats(model.Held) != 23 {
 		t.Errorf("the help's example protocol: %v, %+v", err, pr)
 	}
 }

@@ -42,6 +42,7 @@ func runSolve(env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
+	sc.Params = st.Settled()
 	if err := save.save(env, &sel, sc); err != nil {
 		return err
 	}
@@ -61,6 +62,7 @@ func solveTimed(p model.Params) (*model.Steady, time.Duration, error) {
 func solveObject(sc *presets.Scenario, st *model.Steady, elapsed time.Duration) object {
 	return object{
 		{"scenario", sc.Name},
+		{"circulation", sc.Params.Circulation.String()},
 		{"params", paramsObject(sc.Params)},
 		{"metrics", metricsObject(&st.Metrics)},
 		{"timing", object{
@@ -73,10 +75,13 @@ func solveObject(sc *presets.Scenario, st *model.Steady, elapsed time.Duration) 
 
 func writeSolveTable(env *Env, sc *presets.Scenario, st *model.Steady, elapsed time.Duration) error {
 	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(w, "Scenario %s: steady state in %d beats, %.2f ms (residual %.1e)\n\n", sc.Name, st.Beats,
-		float64(elapsed.Microseconds())/1000, st.Residual)
+	fmt.Fprintf(w, "Scenario %s, %s circulation: steady state in %d beats, %.2f ms (residual %.1e)\n\n", sc.Name,
+		sc.Params.Circulation, st.Beats, float64(elapsed.Microseconds())/1000, st.Residual)
 	fmt.Fprintln(w, "PARAMETER\tVALUE\tUNIT\t")
 	for _, s := range model.Specs {
+		if !s.ActsIn(sc.Params.Circulation) {
+			continue
+		}
 		fmt.Fprintf(w, "%s\t%s\t%s\t\n", s.Key, formatValue(s.Get(sc.Params)), s.Unit)
 	}
 	fmt.Fprintln(w, "\t\t\t")

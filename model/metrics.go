@@ -33,6 +33,14 @@ type Metrics struct {
 	EDStress     float64 // end-diastolic meridional wall stress, 10³ dyn/cm²
 	ESStress     float64 // end-systolic meridional wall stress, 10³ dyn/cm²
 	TED, TES     float64 // times of end-diastole and end-systole, s from the first sample
+
+	// The rest of the circulation (metrics_circulation.go); NaN where the
+	// model or the recording does not have it.
+	LAPMean       float64 // mean left-atrial pressure, mmHg
+	AtrialFilling float64 // share of LV filling during atrial contraction, %
+	CVP           float64 // mean right-atrial (central venous) pressure, mmHg
+	PAPMean       float64 // mean pulmonary arterial pressure, mmHg
+	RVSV          float64 // right-ventricular stroke volume, mL
 }
 
 // BeatSamples are the samples of one cardiac cycle. The first and last
@@ -205,6 +213,7 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 
 	m.EDStress = wallStress(m.EDP, m.EDV, k.WallVolume)
 	m.ESStress = wallStress(m.ESP, m.ESV, k.WallVolume)
+	m.LAPMean, m.AtrialFilling, m.CVP, m.PAPMean, m.RVSV = nan, nan, nan, nan, nan
 	return m, nil
 }
 

@@ -41,6 +41,11 @@ var MetricSpecs = []MetricSpec{
 	{"tau_ms", "ms", "τ", "isovolumic relaxation time constant (Weiss)", func(m *Metrics) float64 { return m.Tau }},
 	{"ed_wall_stress_kdyn_cm2", "10³ dyn/cm²", "σ ED", "end-diastolic meridional wall stress", func(m *Metrics) float64 { return m.EDStress }},
 	{"es_wall_stress_kdyn_cm2", "10³ dyn/cm²", "σ ES", "end-systolic meridional wall stress", func(m *Metrics) float64 { return m.ESStress }},
+	{"lap_mean_mmhg", "mmHg", "LAP", "mean left-atrial pressure (the filling pressure when held)", func(m *Metrics) float64 { return m.LAPMean }},
+	{"atrial_filling_pct", "%", "A fill", "share of LV filling during atrial contraction (closed circulation)", func(m *Metrics) float64 { return m.AtrialFilling }},
+	{"cvp_mmhg", "mmHg", "CVP", "mean right-atrial (central venous) pressure (closed circulation)", func(m *Metrics) float64 { return m.CVP }},
+	{"pap_mean_mmhg", "mmHg", "mPAP", "mean pulmonary arterial pressure (closed circulation)", func(m *Metrics) float64 { return m.PAPMean }},
+	{"rv_sv_ml", "mL", "RV SV", "right-ventricular stroke volume (closed circulation)", func(m *Metrics) float64 { return m.RVSV }},
 }
 
 // MetricByKey returns the spec of a metric key.

@@ -6,10 +6,12 @@ import (
 	"strconv"
 )
 
-// Params are the levers of the model. Every field is in the unit named in its
-// key (see Specs); Validate checks the ranges.
+// Params are the levers of the model. Every field but Circulation is in the
+// unit named in its key (see Specs); Validate checks the ranges.
 type Params struct {
-	FillingPressure  float64 // left-atrial (filling) pressure, mmHg
+	Circulation Circulation // held filling pressure or closed circulation
+
+	FillingPressure  float64 // left-atrial (filling) pressure, mmHg: held, or the target of mean LAP in a closed circulation
 	Ees              float64 // end-systolic elastance, slope of the ESPVR, mmHg/mL
 	V0               float64 // volume intercept of the ESPVR (and origin of the EDPVR), mL
 	EdpvrA           float64 // EDPVR scale A in P = A·(exp(B·(V−V0)) − 1), mmHg
@@ -22,10 +24,26 @@ type Params struct {
 	WallVolume       float64 // LV myocardial (wall) volume for wall stress, mL
 	MitralResistance float64 // open mitral valve resistance, mmHg·s/mL
 	AorticResistance float64 // open aortic valve resistance, mmHg·s/mL
+
+	// The closed circulation (docs/science.md §9); unused in a held one.
+	StressedVolume         float64 // blood volume above the unstressed volumes of all compartments, mL
+	VenousCompliance       float64 // systemic venous compliance, mL/mmHg
+	VenousReturnResistance float64 // from the systemic veins to the right atrium, mmHg·s/mL
+	CavalOcclusion         float64 // share of the venous return path closed by a caval balloon, %
+	RVEes                  float64 // right-ventricular end-systolic elastance, mmHg/mL
+	RVV0                   float64 // RV ESPVR intercept and EDPVR origin, mL
+	RVEdpvrA               float64 // RV EDPVR scale, mmHg
+	RVEdpvrB               float64 // RV EDPVR stiffness, 1/mL
+	PulmonaryResistance    float64 // pulmonary vascular resistance, mmHg·s/mL
+	PulmonaryCompliance    float64 // pulmonary arterial compliance, mL/mmHg
+	PulmonaryVenousComp    float64 // pulmonary venous compliance, mL/mmHg
+	AtrialEmax             float64 // peak elastance of both atria, mmHg/mL
+	AtrialEmin             float64 // passive elastance of both atria, mmHg/mL
+	PRInterval             float64 // atrial activation onset before the ventricles', ms
 }
 
 // Spec describes one parameter: its key (unit in the name), unit, allowed
-// range and meaning.
+// range, meaning and the circulation it acts in.
 type Spec struct {
 	Key     string
 	Name    string // short name for headings and screens, e.g. "Heart rate"
@@ -34,6 +52,21 @@ type Spec struct {
 	Max     float64
 	Meaning string
 	field   func(*Params) *float64
+	// only restricts the parameter to one circulation when set.
+	only   bool
+	onlyIn Circulation
+}
+
+// ActsIn reports whether the parameter acts in circulation c.
+func (s Spec) ActsIn(c Circulation) bool { return !s.only || s.onlyIn == c }
+
+// Circulations names the circulations the parameter acts in: "held",
+// "closed" or "both".
+func (s Spec) Circulations() string {
+	if !s.only {
+		return "both"
+	}
+	return s.onlyIn.String()
 }
 
 // Get returns the parameter's value in p.
@@ -46,33 +79,67 @@ func (s Spec) Set(p *Params, v float64) { *s.field(p) = v }
 // first come first. The ranges cover disease and exercise while keeping the
 // solver in the region where a periodic steady state exists.
 var Specs = []Spec{
-	{"filling_pressure_mmhg", "Filling pressure", "mmHg", 1, 40, "left-atrial filling pressure (preload lever)",
-		func(p *Params) *float64 { return &p.FillingPressure }},
-	{"ees_mmhg_per_ml", "Ees", "mmHg/mL", 0.2, 10, "end-systolic elastance, slope of the ESPVR (contractility)",
-		func(p *Params) *float64 { return &p.Ees }},
-	{"resistance_mmhg_s_per_ml", "Systemic resistance", "mmHg·s/mL", 0.2, 5, "systemic peripheral resistance R of the Windkessel",
-		func(p *Params) *float64 { return &p.Resistance }},
-	{"heart_rate_bpm", "Heart rate", "bpm", 30, 180, "heart rate; systolic duration scales with the beat period",
-		func(p *Params) *float64 { return &p.HeartRate }},
-	{"v0_ml", "V0", "mL", -30, 120, "volume intercept of the ESPVR and origin of the EDPVR",
-		func(p *Params) *float64 { return &p.V0 }},
-	{"edpvr_a_mmhg", "EDPVR A", "mmHg", 0.01, 10, "EDPVR scale A in A·(exp(B·(V−V0)) − 1)",
-		func(p *Params) *float64 { return &p.EdpvrA }},
-	{"edpvr_b_per_ml", "EDPVR B", "1/mL", 0.005, 0.2, "EDPVR stiffness B in A·(exp(B·(V−V0)) − 1)",
-		func(p *Params) *float64 { return &p.EdpvrB }},
-	{"compliance_ml_per_mmhg", "Arterial compliance", "mL/mmHg", 0.2, 5, "arterial compliance C of the Windkessel",
-		func(p *Params) *float64 { return &p.Compliance }},
-	{"zc_mmhg_s_per_ml", "Zc", "mmHg·s/mL", 0, 0.5, "aortic characteristic impedance Zc (0 gives a two-element Windkessel)",
-		func(p *Params) *float64 { return &p.Zc }},
-	{"venous_pressure_mmhg", "Venous pressure", "mmHg", 0, 25, "venous pressure the Windkessel drains to",
-		func(p *Params) *float64 { return &p.VenousPressure }},
-	{"wall_volume_ml", "Wall volume", "mL", 50, 500, "LV wall (myocardial) volume, for wall stress",
-		func(p *Params) *float64 { return &p.WallVolume }},
-	{"mitral_resistance_mmhg_s_per_ml", "Mitral valve resistance", "mmHg·s/mL", 0.001, 0.5, "resistance of the open mitral valve",
-		func(p *Params) *float64 { return &p.MitralResistance }},
-	{"aortic_resistance_mmhg_s_per_ml", "Aortic valve resistance", "mmHg·s/mL", 0.001, 1, "resistance of the open aortic valve",
-		func(p *Params) *float64 { return &p.AorticResistance }},
+	spec("filling_pressure_mmhg", "Filling pressure", "mmHg", 1, 40, "left-atrial filling pressure: held, or the mean LAP the closed circulation's volume is set to (preload lever)",
+		func(p *Params) *float64 { return &p.FillingPressure }),
+	spec("ees_mmhg_per_ml", "Ees", "mmHg/mL", 0.2, 10, "end-systolic elastance, slope of the ESPVR (contractility)",
+		func(p *Params) *float64 { return &p.Ees }),
+	spec("resistance_mmhg_s_per_ml", "Systemic resistance", "mmHg·s/mL", 0.2, 5, "systemic peripheral resistance R of the Windkessel",
+		func(p *Params) *float64 { return &p.Resistance }),
+	spec("heart_rate_bpm", "Heart rate", "bpm", 30, 180, "heart rate; systole shortens with the beat period",
+		func(p *Params) *float64 { return &p.HeartRate }),
+	spec("v0_ml", "V0", "mL", -30, 120, "volume intercept of the ESPVR and origin of the EDPVR",
+		func(p *Params) *float64 { return &p.V0 }),
+	spec("edpvr_a_mmhg", "EDPVR A", "mmHg", 0.01, 10, "EDPVR scale A in A·(exp(B·(V−V0)) − 1)",
+		func(p *Params) *float64 { return &p.EdpvrA }),
+	spec("edpvr_b_per_ml", "EDPVR B", "1/mL", 0.005, 0.2, "EDPVR stiffness B in A·(exp(B·(V−V0)) − 1)",
+		func(p *Params) *float64 { return &p.EdpvrB }),
+	spec("compliance_ml_per_mmhg", "Arterial compliance", "mL/mmHg", 0.2, 5, "arterial compliance C of the Windkessel",
+		func(p *Params) *float64 { return &p.Compliance }),
+	spec("zc_mmhg_s_per_ml", "Zc", "mmHg·s/mL", 0, 0.5, "aortic characteristic impedance Zc (0 gives a two-element Windkessel)",
+		func(p *Params) *float64 { return &p.Zc }),
+	only(Held, spec("venous_pressure_mmhg", "Venous pressure", "mmHg", 0, 25, "venous pressure the Windkessel drains to (held circulation)",
+		func(p *Params) *float64 { return &p.VenousPressure })),
+	spec("wall_volume_ml", "Wall volume", "mL", 50, 500, "LV wall (myocardial) volume, for wall stress and O2 use",
+		func(p *Params) *float64 { return &p.WallVolume }),
+	spec("mitral_resistance_mmhg_s_per_ml", "Mitral valve resistance", "mmHg·s/mL", 0.001, 0.5, "resistance of the open mitral valve",
+		func(p *Params) *float64 { return &p.MitralResistance }),
+	spec("aortic_resistance_mmhg_s_per_ml", "Aortic valve resistance", "mmHg·s/mL", 0.001, 1, "resistance of the open aortic valve",
+		func(p *Params) *float64 { return &p.AorticResistance }),
+	only(Closed, spec("stressed_volume_ml", "Stressed volume", "mL", 100, 5000, "blood volume above the unstressed volume of every compartment (closed circulation)",
+		func(p *Params) *float64 { return &p.StressedVolume })),
+	only(Closed, spec("venous_compliance_ml_per_mmhg", "Venous compliance", "mL/mmHg", 10, 400, "compliance of the systemic veins",
+		func(p *Params) *float64 { return &p.VenousCompliance })),
+	only(Closed, spec("venous_return_resistance_mmhg_s_per_ml", "Venous return resistance", "mmHg·s/mL", 0.005, 0.5, "resistance from the systemic veins to the right atrium",
+		func(p *Params) *float64 { return &p.VenousReturnResistance })),
+	only(Closed, spec("caval_occlusion_pct", "Caval occlusion", "%", 0, 95, "share of the venous return path closed by a caval balloon (0 = open)",
+		func(p *Params) *float64 { return &p.CavalOcclusion })),
+	only(Closed, spec("rv_ees_mmhg_per_ml", "RV Ees", "mmHg/mL", 0.1, 5, "right-ventricular end-systolic elastance",
+		func(p *Params) *float64 { return &p.RVEes })),
+	only(Closed, spec("rv_v0_ml", "RV V0", "mL", -30, 150, "RV ESPVR intercept and EDPVR origin",
+		func(p *Params) *float64 { return &p.RVV0 })),
+	only(Closed, spec("rv_edpvr_a_mmhg", "RV EDPVR A", "mmHg", 0.01, 10, "RV EDPVR scale A",
+		func(p *Params) *float64 { return &p.RVEdpvrA })),
+	only(Closed, spec("rv_edpvr_b_per_ml", "RV EDPVR B", "1/mL", 0.002, 0.2, "RV EDPVR stiffness B",
+		func(p *Params) *float64 { return &p.RVEdpvrB })),
+	only(Closed, spec("pulmonary_resistance_mmhg_s_per_ml", "Pulmonary resistance", "mmHg·s/mL", 0.01, 1.5, "pulmonary vascular resistance",
+		func(p *Params) *float64 { return &p.PulmonaryResistance })),
+	only(Closed, spec("pulmonary_compliance_ml_per_mmhg", "Pulmonary compliance", "mL/mmHg", 0.5, 20, "pulmonary arterial compliance",
+		func(p *Params) *float64 { return &p.PulmonaryCompliance })),
+	only(Closed, spec("pulmonary_venous_compliance_ml_per_mmhg", "Pulmonary venous compliance", "mL/mmHg", 1, 60, "pulmonary venous compliance",
+		func(p *Params) *float64 { return &p.PulmonaryVenousComp })),
+	only(Closed, spec("atrial_emax_mmhg_per_ml", "Atrial Emax", "mmHg/mL", 0.05, 3, "peak elastance of the contracting atria",
+		func(p *Params) *float64 { return &p.AtrialEmax })),
+	only(Closed, spec("atrial_emin_mmhg_per_ml", "Atrial Emin", "mmHg/mL", 0.02, 1, "passive elastance of the atria",
+		func(p *Params) *float64 { return &p.AtrialEmin })),
+	only(Closed, spec("pr_interval_ms", "PR interval", "ms", 60, 300, "onset of atrial contraction before the ventricles'",
+		func(p *Params) *float64 { return &p.PRInterval })),
 }
+
+func spec(key, name, unit string, lo, hi float64, meaning string, f func(*Params) *float64) Spec {
+	return Spec{Key: key, Name: name, Unit: unit, Min: lo, Max: hi, Meaning: meaning, field: f}
+}
+
+func only(c Circulation, s Spec) Spec { s.only, s.onlyIn = true, c; return s }
 
 // SpecByKey returns the spec of a parameter key.
 func SpecByKey(key string) (Spec, bool) {
@@ -130,9 +197,22 @@ func (s Spec) Check(v float64) error {
 // Validate checks every parameter against its range, and the combinations
 // that would leave the model without a sensible heart.
 func (p Params) Validate() error {
+	if p.Circulation != Held && p.Circulation != Closed {
+		return fmt.Errorf("circulation %d: allowed held or closed", p.Circulation)
+	}
 	for _, s := range Specs {
+		if !s.ActsIn(p.Circulation) {
+			continue
+		}
 		if err := s.Check(s.Get(p)); err != nil {
 			return err
+		}
+	}
+	if p.Circulation == Closed {
+		if period := 60000 / p.HeartRate; !(p.PRInterval < 0.8*period) {
+			return &ParamError{"pr_interval_ms", p.PRInterval, fmt.Sprintf(
+				"at heart_rate_bpm = %g the beat lasts %.0f ms; the PR interval must be shorter than %.0f ms (0.8 of the beat)",
+				p.HeartRate, period, 0.8*period)}
 		}
 	}
 	if x := p.FilledVolume() - p.V0; !(x >= minFilling) {

@@ -164,12 +164,16 @@ func (r *Transient) record(t0, t1 float64, last bool) Recording {
 	if len(local) == 0 {
 		return rec
 	}
-	rec.V = make([]float64, len(local))
-	pc := make([]float64, len(local))
-	s.dense.Eval(local, [][]float64{rec.V, pc})
+	n := s.c.dim()
+	cols := make([][]float64, n)
+	for i := range cols {
+		cols[i] = make([]float64, len(local))
+	}
+	s.dense.Eval(local, cols)
+	rec.V = cols[LeftVentricle]
 	rec.P = make([]float64, len(local))
 	for i, t := range local {
-		rec.P[i] = s.p.Pressure(s.act.E(t), rec.V[i])
+		rec.P[i] = s.c.lv.pressure(s.c.act.E(t), rec.V[i])
 	}
 	return rec
 }

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // SteadyTol is the beat-map residual below which a beat counts as periodic:
@@ -13,14 +15,27 @@ const SteadyTol = 1e-6
 // MaxSteadyBeats caps the beats integrated while looking for a steady state.
 const MaxSteadyBeats = 60
 
+// maxUnknowns is the most unknowns of a steady-state search: the closed
+// circulation's compartment volumes but one (their sum is fixed) and the
+// stressed volume.
+const maxUnknowns = int(NumCompartments)
+
+// closedUnknowns are the compartments whose start volumes the closed search
+// solves for; the systemic veins take the rest of the blood volume.
+var closedUnknowns = [...]Compartment{LeftVentricle, SystemicArteries, RightAtrium, RightVentricle,
+	PulmonaryArteries, PulmonaryVeins, LeftAtrium}
+
 // Warm carries a steady state forward, so that solving for nearby parameters
 // starts from it (and from its Jacobian of the beat map). The zero value
 // means a cold start.
 type Warm struct {
-	State  State
-	jac    [2][2]float64
-	hasJac bool
-	ok     bool
+	State State
+	circ  Circulation
+	jac   [maxUnknowns * maxUnknowns]float64 // row-major, of the residual w.r.t. the unknowns
+	// hasJac marks jac as valid for the state unknowns; hasVolume also for
+	// the stressed volume's column (closed).
+	hasJac, hasVolume bool
+	ok                bool
 }
 
 // Valid reports whether w holds a state to start from.
@@ -40,15 +55,22 @@ var errBeatCap = errors.New("beat cap reached")
 // NotSettledError is returned when no periodic steady state was found within
 // MaxSteadyBeats.
 type NotSettledError struct {
-	Beats    int
-	Residual float64
-	Cause    error // the failure that stopped the search, if any
+	Beats       int
+	Residual    float64
+	Cause       error // the failure that stopped the search, if any
+	Circulation Circulation
 }
 
 func (e *NotSettledError) Error() string {
-	msg := fmt.Sprintf("no periodic steady state after %d beats (beat-map residual %.2g, need below %g)", e.Beats, e.Residual, SteadyTol)
+	msg := fmt.Sprintf("no periodic steady state in the %s circulation after %d beats (beat-map residual %.2g, need below %g)",
+		e.Circulation, e.Beats, e.Residual, SteadyTol)
 	if e.Cause != nil && !errors.Is(e.Cause, errBeatCap) {
 		msg += ": " + e.Cause.Error()
+	}
+	if e.Circulation == Closed {
+		return msg + "; the parameters may be outside the region where this circulation settles: very stiff chambers " +
+			"(edpvr_b_per_ml, rv_edpvr_b_per_ml, atrial_emin_mmhg_per_ml) or volumes far from their unstressed ones " +
+			"(stressed_volume_ml) make its equations too stiff or its beat irregular"
 	}
 	return msg + "; the parameters may be outside the region where this heart settles"
 }
@@ -56,176 +78,383 @@ func (e *NotSettledError) Error() string {
 func (e *NotSettledError) Unwrap() error { return e.Cause }
 
 // SteadyState finds the periodic steady state of p: the start-of-beat state x
-// with F(x) = x, where F integrates one beat. Plain repetition of beats
-// converges only at the rate exp(−T/(R·C)) of the arterial load; instead
-// Newton's method is applied to G(x) = F(x) − x, with a finite-difference
-// Jacobian of F on a cold start and Broyden updates after each beat. A warm
-// start reuses the state and Jacobian of a previous nearby solve and usually
-// settles in two or three beats.
+// with F(x) = x, where F integrates one beat. In a closed circulation the
+// stressed volume is p's and fixes the sum of the volumes, so the unknowns are
+// all volumes but the systemic veins'. Plain repetition of beats converges
+// only at the rate of the slowest compartment (the veins and arteries drain
+// over seconds); instead Newton's method is applied to G(x) = F(x) − x, with a
+// finite-difference Jacobian on a cold start and Broyden updates after each
+// beat. A warm start reuses the state and Jacobian of a previous nearby solve
+// and usually settles in two or three beats.
 func (s *Solver) SteadyState(p Params, warm *Warm) (*Steady, error) {
 	if err := p.Validate(); err != nil {
 		return nil, err
 	}
-	s.setParams(p)
-	beats := 0
-	eval := func(x State) (State, error) {
-		if beats >= MaxSteadyBeats {
-			return State{}, errBeatCap
-		}
-		beats++
-		return s.integrate(x)
-	}
+	return s.shoot(p, warm, false)
+}
 
-	var x State
-	var jac [2][2]float64
-	haveJac := false
-	if warm.Valid() {
-		x, jac, haveJac = warm.State, warm.jac, warm.hasJac
-	} else {
-		x = p.coldGuess()
+// SteadyStateAtFillingPressure finds the steady state whose mean left-atrial
+// pressure is p.FillingPressure. Held, that is SteadyState. Closed, the
+// stressed volume is an unknown too, solved with the state so that the mean
+// LAP over the beat equals the filling pressure, as a fluid challenge gives or
+// removes volume until the wedge pressure reads a target; the returned beat's
+// Params carry the volume found.
+func (s *Solver) SteadyStateAtFillingPressure(p Params, warm *Warm) (*Steady, error) {
+	if p.Circulation != Closed {
+		return s.SteadyState(p, warm)
 	}
-	fx, err := eval(x)
+	if !(p.StressedVolume > 0) {
+		_, p.StressedVolume = p.coldClosedAt(p.FillingPressure)
+	}
+	if spec, _ := SpecByKey("stressed_volume_ml"); p.StressedVolume < spec.Min || p.StressedVolume > spec.Max {
+		p.StressedVolume = math.Min(math.Max(p.StressedVolume, spec.Min), spec.Max)
+	}
+	if err := p.Validate(); err != nil {
+		return nil, err
+	}
+	st, err := s.shoot(p, warm, true)
+	if err != nil {
+		return nil, err
+	}
+	if spec, _ := SpecByKey("stressed_volume_ml"); spec.Check(st.Params.StressedVolume) != nil {
+		return nil, &ParamError{"filling_pressure_mmhg", p.FillingPressure, fmt.Sprintf(
+			"a mean left-atrial pressure of %g mmHg needs a stressed volume of %.0f mL, outside %s: choose a filling pressure this circulation can reach",
+			p.FillingPressure, st.Params.StressedVolume, spec.RangeText())}
+	}
+	return st, nil
+}
+
+// CalibrateVolume returns p with the stressed volume that gives a mean
+// left-atrial pressure equal to p.FillingPressure in the closed circulation,
+// and the steady state it gives. Held parameters are returned as they are.
+func CalibrateVolume(p Params) (Params, *Steady, error) {
+	st, err := NewSolver().SteadyStateAtFillingPressure(p, nil)
+	if err != nil {
+		return p, nil, err
+	}
+	return st.Params, st, nil
+}
+
+// shooter is one steady-state search: its unknowns, residuals and the beats
+// it has integrated.
+type shooter struct {
+	s      *Solver
+	p      *Params
+	closed bool
+	m      int // state unknowns
+	k      int // all unknowns: m, and the stressed volume when closed
+	solveK int // unknowns solved for: m, or k when calibrating
+	beats  int
+	unstr  float64 // sum of the unstressed volumes, mL
+}
+
+// state builds the start-of-beat state from the unknowns z.
+func (sh *shooter) state(z []float64) State {
+	var x State
+	if !sh.closed {
+		x.V[LeftVentricle], x.V[SystemicArteries] = z[0], z[1]
+		return x
+	}
+	rest := z[sh.m] + sh.unstr
+	for i, c := range closedUnknowns {
+		x.V[c] = z[i]
+		rest -= z[i]
+	}
+	x.V[SystemicVeins] = rest
+	return x
+}
+
+// unknowns writes the unknowns of state x (and stressed volume sv) into z.
+func (sh *shooter) unknowns(x State, sv float64, z []float64) {
+	if !sh.closed {
+		z[0], z[1] = x.V[LeftVentricle], x.V[SystemicArteries]
+		return
+	}
+	for i, c := range closedUnknowns {
+		z[i] = x.V[c]
+	}
+	z[sh.m] = sv
+}
+
+// eval integrates one beat from z and writes the residuals into r: the change
+// of each state unknown over the beat and, closed, the mean LAP less the
+// filling pressure. It returns the beat's end state.
+func (sh *shooter) eval(z, r []float64) (State, error) {
+	if sh.beats >= MaxSteadyBeats {
+		return State{}, errBeatCap
+	}
+	sh.beats++
+	x := sh.state(z)
+	end, lap, err := sh.s.integrate(x)
+	if err != nil {
+		return end, err
+	}
+	if !sh.closed {
+		r[0], r[1] = end.V[LeftVentricle]-z[0], end.V[SystemicArteries]-z[1]
+		return end, nil
+	}
+	for i, c := range closedUnknowns {
+		r[i] = end.V[c] - z[i]
+	}
+	r[sh.m] = lap - sh.p.FillingPressure
+	return end, nil
+}
+
+// norm is the relative size of the residual r at z over the unknowns solved.
+func (sh *shooter) norm(r, z []float64) float64 {
+	var worst float64
+	for i := 0; i < sh.solveK; i++ {
+		scale := math.Max(math.Abs(z[i]), 10)
+		if i == sh.m {
+			scale = math.Max(math.Abs(sh.p.FillingPressure), 10)
+		}
+		a := math.Abs(r[i]) / scale
+		if math.IsNaN(a) {
+			return math.Inf(1)
+		}
+		worst = math.Max(worst, a)
+	}
+	return worst
+}
+
+// shoot runs the Newton–Broyden search; calibrate adds the stressed volume to
+// the unknowns and the mean-LAP condition to the equations.
+func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
+	s.setParams(p)
+	sh := &shooter{s: s, p: &s.p, closed: s.c.closed, m: heldDim, k: heldDim}
+	if sh.closed {
+		sh.m, sh.k = len(closedUnknowns), len(closedUnknowns)+1
+		for _, u := range p.unstressed() {
+			sh.unstr += u
+		}
+	}
+	sh.solveK = sh.m
+	if calibrate {
+		sh.solveK = sh.k
+	}
+	k := sh.k
+	z := make([]float64, 5*k)
+	z, r, zn, rn, dz := z[:k], z[k:2*k], z[2*k:3*k], z[3*k:4*k], z[4*k:]
+	var jac [maxUnknowns * maxUnknowns]float64
+	haveJac, haveVol := false, false
+	if warm.Valid() && warm.circ == p.Circulation {
+		sh.unknowns(warm.State, p.StressedVolume, z)
+		jac, haveJac, haveVol = warm.jac, warm.hasJac, warm.hasVolume
+	} else {
+		sh.unknowns(p.coldGuess(), p.StressedVolume, z)
+	}
+	end, err := sh.eval(z, r)
 	if err != nil {
 		// A warm state far from the new parameters can fail; fall back to cold.
-		x, haveJac = p.coldGuess(), false
-		if fx, err = eval(x); err != nil {
-			return nil, &NotSettledError{Beats: beats, Residual: math.Inf(1), Cause: err}
+		sh.unknowns(p.coldGuess(), p.StressedVolume, z)
+		haveJac, haveVol = false, false
+		if end, err = sh.eval(z, r); err != nil {
+			return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: math.Inf(1), Cause: err}
 		}
 	}
-	r := [2]float64{fx.V - x.V, fx.Pc - x.Pc}
-	res := residual(r, x)
+	res := sh.norm(r, z)
 	for res >= SteadyTol {
-		if beats >= MaxSteadyBeats {
-			return nil, &NotSettledError{Beats: beats, Residual: res}
+		if sh.beats >= MaxSteadyBeats {
+			return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: res}
 		}
-		if !haveJac {
-			if jac, err = s.jacobian(x, fx, eval); err != nil {
-				return nil, &NotSettledError{Beats: beats, Residual: res, Cause: err}
+		if !haveJac || calibrate && !haveVol {
+			cols := sh.solveK
+			first := 0
+			if haveJac {
+				first = sh.m // only the stressed volume's column is missing
 			}
-			haveJac = true
+			if err := sh.jacobian(z, r, jac[:], first, cols); err != nil {
+				return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: res, Cause: err}
+			}
+			haveJac, haveVol = true, haveVol || cols == sh.k
 		}
-		dx, ok := newtonStep(jac, r)
+		ok, deficient := newtonStep(jac[:], k, sh.solveK, r, dz)
 		if !ok {
-			return nil, &NotSettledError{Beats: beats, Residual: res, Cause: fmt.Errorf("singular beat-map Jacobian")}
+			// A singular Jacobian (a ventricle that neither fills nor ejects
+			// from here keeps its volume whatever it starts with): take one
+			// plain beat instead and build the Jacobian again where it lands.
+			for i := range dz {
+				dz[i] = 0
+			}
+			copy(dz[:sh.m], r[:sh.m])
+			haveJac, haveVol = false, false
 		}
-		limitStep(&dx, x)
+		sh.limitStep(dz, z)
 		// Damped step: halve until the residual does not grow much.
-		var xn, fxn State
-		var rn [2]float64
+		var endn State
 		var resn float64
 		accepted := false
-		for lambda := 1.0; lambda > 1.0/64 && beats < MaxSteadyBeats; lambda /= 2 {
-			xn = State{x.V + lambda*dx[0], x.Pc + lambda*dx[1]}
-			fxn, err = eval(xn)
-			if err != nil {
+		for lambda := 1.0; lambda > 1.0/64 && sh.beats < MaxSteadyBeats; lambda /= 2 {
+			for i := range z {
+				zn[i] = z[i] + lambda*dz[i]
+			}
+			if endn, err = sh.eval(zn, rn); err != nil {
 				continue
 			}
-			rn = [2]float64{fxn.V - xn.V, fxn.Pc - xn.Pc}
-			resn = residual(rn, xn)
+			resn = sh.norm(rn, zn)
 			if resn < 2*res || resn < SteadyTol {
 				accepted = true
 				break
 			}
 		}
 		if !accepted {
-			if err == nil && beats < MaxSteadyBeats {
+			if err == nil && sh.beats < MaxSteadyBeats {
 				// The Jacobian misled us: rebuild it where we stand and retry.
-				// The last evaluation was not of x, so redo it too.
-				if fx, err = eval(x); err == nil {
-					haveJac = false
+				// The last evaluation was not of z, so redo it too.
+				if end, err = sh.eval(z, r); err == nil {
+					haveJac, haveVol = false, false
 					continue
 				}
 			}
-			return nil, &NotSettledError{Beats: beats, Residual: res, Cause: err}
+			return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: res, Cause: err}
 		}
-		broyden(&jac, [2]float64{xn.V - x.V, xn.Pc - x.Pc}, [2]float64{fxn.V - fx.V, fxn.Pc - fx.Pc})
-		x, fx, r, res = xn, fxn, rn, resn
+		for i := range dz {
+			dz[i] = zn[i] - z[i]
+		}
+		for i := range rn {
+			r[i] = rn[i] - r[i] // the change of the residual, for Broyden
+		}
+		broyden(jac[:], k, dz, r)
+		if deficient {
+			haveJac, haveVol = false, false
+		}
+		copy(z, zn)
+		copy(r, rn)
+		end, res = endn, resn
 	}
-	// The last integrated beat started from x and is periodic within SteadyTol.
-	b, err := s.sample(x, fx)
+	// The last integrated beat started from z and is periodic within SteadyTol.
+	start := sh.state(z)
+	if sh.closed {
+		s.p.StressedVolume = z[sh.m]
+	}
+	lap := s.p.FillingPressure
+	if sh.closed {
+		lap = r[sh.m] + s.p.FillingPressure
+	}
+	b, err := s.sample(start, end, lap)
 	if err != nil {
 		return nil, err
 	}
-	return &Steady{Beat: b, Beats: beats, Residual: res, Warm: Warm{State: x, jac: jac, hasJac: haveJac, ok: true}}, nil
+	if err := checkBeat(b); err != nil {
+		return nil, err
+	}
+	return &Steady{Beat: b, Beats: sh.beats, Residual: res,
+		Warm: Warm{State: start, circ: p.Circulation, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true}}, nil
 }
 
-// residual is the relative size of the beat-map residual r at x.
-func residual(r [2]float64, x State) float64 {
-	a := math.Abs(r[0]) / math.Max(math.Abs(x.V), 10)
-	b := math.Abs(r[1]) / math.Max(math.Abs(x.Pc), 10)
-	if math.IsNaN(a) || math.IsNaN(b) {
-		return math.Inf(1)
+// jacobian fills columns first…cols−1 of the forward-difference Jacobian of
+// the residual at z (where it is r), every row. It leaves the dense record
+// holding a perturbed beat.
+func (sh *shooter) jacobian(z, r, jac []float64, first, cols int) error {
+	k := sh.k
+	zp := make([]float64, 2*k)
+	zp, rp := zp[:k], zp[k:]
+	for j := first; j < cols; j++ {
+		copy(zp, z)
+		h := 1e-4 * math.Max(math.Abs(z[j]), 10)
+		zp[j] += h
+		if _, err := sh.eval(zp, rp); err != nil {
+			return err
+		}
+		for i := 0; i < k; i++ {
+			jac[i*k+j] = (rp[i] - r[i]) / h
+		}
 	}
-	return math.Max(a, b)
+	return nil
 }
 
-// jacobian is the forward-difference Jacobian of the beat map at x (F(x) = fx).
-// It leaves the dense record holding a perturbed beat.
-func (s *Solver) jacobian(x, fx State, eval func(State) (State, error)) ([2][2]float64, error) {
-	var j [2][2]float64
-	hv := 1e-4 * math.Max(math.Abs(x.V), 10)
-	hp := 1e-4 * math.Max(math.Abs(x.Pc), 10)
-	f1, err := eval(State{x.V + hv, x.Pc})
-	if err != nil {
-		return j, err
+// newtonStep solves J·dz = −r over the first n unknowns (J is k×k, row-major)
+// with gonum's LU factorisation; the other unknowns keep dz = 0. A singular J
+// (a ventricle that neither fills nor ejects keeps its volume whatever it
+// starts with) is solved in the least-squares sense on its nonsingular part,
+// by gonum's SVD, so the other unknowns still take their Newton step.
+//
+// It reports whether it found a step and whether J was rank-deficient, when
+// the Jacobian should be built afresh where the step lands.
+func newtonStep(jac []float64, k, n int, r, dz []float64) (ok, deficient bool) {
+	a := mat.NewDense(n, n, nil)
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			a.Set(i, j, jac[i*k+j])
+		}
 	}
-	f2, err := eval(State{x.V, x.Pc + hp})
-	if err != nil {
-		return j, err
+	b := mat.NewVecDense(n, nil)
+	for i := 0; i < n; i++ {
+		b.SetVec(i, -r[i])
 	}
-	j[0][0], j[1][0] = (f1.V-fx.V)/hv, (f1.Pc-fx.Pc)/hv
-	j[0][1], j[1][1] = (f2.V-fx.V)/hp, (f2.Pc-fx.Pc)/hp
-	return j, nil
+	var x mat.VecDense
+	if err := x.SolveVec(a, b); err != nil {
+		var svd mat.SVD
+		if !svd.Factorize(a, mat.SVDThin) {
+			return false, true
+		}
+		vals := svd.Values(nil)
+		rank := 0
+		for _, v := range vals {
+			if v > 1e-9*vals[0] {
+				rank++
+			}
+		}
+		if rank == 0 {
+			return false, true
+		}
+		svd.SolveVecTo(&x, b, rank)
+		deficient = true
+	}
+	for i := range dz {
+		dz[i] = 0
+		if i < n {
+			dz[i] = x.AtVec(i)
+		}
+		if !finite(dz[i]) {
+			return false, deficient
+		}
+	}
+	return true, deficient
 }
 
-// newtonStep solves (J − I)·dx = −r for the two-component state by Cramer's rule.
-func newtonStep(j [2][2]float64, r [2]float64) ([2]float64, bool) {
-	a, b, c, d := j[0][0]-1, j[0][1], j[1][0], j[1][1]-1
-	det := a*d - b*c
-	if det == 0 || math.IsNaN(det) {
-		return [2]float64{}, false
+// limitStep keeps a Newton step within half of each unknown's scale, so one
+// poor Jacobian cannot throw the state out of the physiological region.
+func (sh *shooter) limitStep(dz, z []float64) {
+	f := 1.0
+	for i := range dz {
+		scale := 0.5 * math.Max(math.Abs(z[i]), 20)
+		f = math.Max(f, math.Abs(dz[i])/scale)
 	}
-	return [2]float64{(-r[0]*d + r[1]*b) / det, (-r[1]*a + r[0]*c) / det}, true
-}
-
-// limitStep keeps a Newton step within half the state's scale, so one poor
-// Jacobian cannot throw the state out of the physiological region.
-func limitStep(dx *[2]float64, x State) {
-	sv := 0.5 * math.Max(math.Abs(x.V), 20)
-	sp := 0.5 * math.Max(math.Abs(x.Pc), 20)
-	f := math.Max(math.Abs(dx[0])/sv, math.Abs(dx[1])/sp)
-	if f > 1 {
-		dx[0] /= f
-		dx[1] /= f
+	for i := range dz {
+		dz[i] /= f
 	}
 }
 
-// broyden applies Broyden's rank-one update to the beat-map Jacobian J so that
-// J·dx = df.
-func broyden(j *[2][2]float64, dx, df [2]float64) {
-	n := dx[0]*dx[0] + dx[1]*dx[1]
+// broyden applies Broyden's rank-one update to the k×k Jacobian J so that
+// J·dz = dr.
+func broyden(jac []float64, k int, dz, dr []float64) {
+	var n float64
+	for _, v := range dz {
+		n += v * v
+	}
 	if n == 0 {
 		return
 	}
-	u0 := df[0] - (j[0][0]*dx[0] + j[0][1]*dx[1])
-	u1 := df[1] - (j[1][0]*dx[0] + j[1][1]*dx[1])
-	j[0][0] += u0 * dx[0] / n
-	j[0][1] += u0 * dx[1] / n
-	j[1][0] += u1 * dx[0] / n
-	j[1][1] += u1 * dx[1] / n
+	for i := 0; i < k; i++ {
+		u := dr[i]
+		for j := 0; j < k; j++ {
+			u -= jac[i*k+j] * dz[j]
+		}
+		for j := 0; j < k; j++ {
+			jac[i*k+j] += u * dz[j] / n
+		}
+	}
 }
 
-// coldGuess estimates the start-of-beat state without integrating: the
-// ventricle filled to the filling pressure, and the arterial pressure of a
-// two-element Windkessel fed by the stroke volume of the coupling estimate
-// SV = (EDV − V0)·Ees/(Ees + Ea) with Ea ≈ R_total/T (docs/science.md §3).
-func (p Params) coldGuess() State {
-	period := 60 / p.HeartRate
-	edv := p.FilledVolume()
-	ea := (p.Resistance + p.Zc) / period
-	sv := math.Max(0, (edv-p.V0)*p.Ees/(p.Ees+ea))
-	q := math.Exp(-period / (p.Resistance * p.Compliance))
-	// Pc jumps by SV/C at ejection, then decays by q over the beat.
-	pc := p.VenousPressure + sv/p.Compliance*q/(1-q)
-	return State{V: edv, Pc: pc}
+// Settled returns the parameters of the steady state as a scenario should
+// keep them: in a closed circulation the filling pressure becomes the mean
+// left-atrial pressure that the stressed volume gives, so that the pair agree
+// (levers other than the filling pressure move LAP at a fixed volume).
+func (st *Steady) Settled() Params {
+	p := st.Params
+	if p.Circulation == Closed {
+		p.FillingPressure = st.Metrics.LAPMean
+	}
+	return p
 }

@@ -91,7 +91,7 @@ func FuzzParseProtocol(f *testing.F) {
 			checkFileError(t, err, "fuzz.yaml")
 			return
 		}
-		n := pr.TotalBeats()
+		n := pr.maxBeats()
 		if len(pr.Steps) == 0 || n < 1 || n > MaxProtocolBeats {
 			t.Fatalf("accepted %d steps of %d beats", len(pr.Steps), n)
 		}

@@ -14,7 +14,7 @@ type Plan struct {
 	Initial  model.Params   // the parameters before the first step (the run's steady state)
 	Params   []model.Params // parameters of beat i (from 0)
 	Steps    []int          // Steps[i] is the index in Protocol.Steps of beat i's step
-	First    []int          // First[j] is the beat index where step j begins
+	First    []int          // First[j] is the beat index where step j begins; −1 for a step left out in this circulation
 }
 
 // Label returns the label of the step that beat i (from 0) belongs to.
@@ -34,11 +34,18 @@ func (pl *Plan) Label(i int) string { return pl.Protocol.Steps[pl.Steps[i]].Labe
 // lever's value at the start of the step. Every beat's parameters are checked
 // against the ranges of model.Specs and Params.Validate; an error names the
 // step's line in the file, the lever, the value reached and the allowed range.
+//
+// A step marked for one circulation is left out in the other. A step may
+// change only levers that act in the run's circulation, and a closed run
+// never the filling pressure: there the volume, not a held pressure, sets
+// preload (stressed_volume_ml gives or takes blood at a beat's onset,
+// caval_occlusion_pct narrows the venous return).
 func (pr *Protocol) Expand(initial model.Params) (*Plan, error) {
 	if err := initial.Validate(); err != nil {
 		return nil, fmt.Errorf("starting parameters: %w", err)
 	}
-	total := pr.TotalBeats()
+	circ := initial.Circulation
+	total := pr.TotalBeats(circ)
 	if total > MaxProtocolBeats {
 		return nil, &FileError{File: pr.Source, Key: "steps", Msg: fmt.Sprintf("%d beats in all; at most %d are allowed", total, MaxProtocolBeats)}
 	}
@@ -46,6 +53,10 @@ func (pr *Protocol) Expand(initial model.Params) (*Plan, error) {
 		Params: make([]model.Params, 0, total), Steps: make([]int, 0, total), First: make([]int, len(pr.Steps))}
 	cur := initial
 	for j, st := range pr.Steps {
+		pl.First[j] = -1
+		if !st.RunsIn(circ) {
+			continue
+		}
 		pl.First[j] = len(pl.Params)
 		from := cur
 		to := cur
@@ -53,6 +64,9 @@ func (pr *Protocol) Expand(initial model.Params) (*Plan, error) {
 			spec, ok := model.SpecByKey(c.Key)
 			if !ok {
 				return nil, &FileError{File: pr.Source, Line: c.Line, Key: changeKey(j, st, c), Msg: "unknown parameter (see `pvcouple params`)"}
+			}
+			if err := actsInRun(spec, circ); err != nil {
+				return nil, &FileError{File: pr.Source, Line: c.Line, Key: changeKey(j, st, c), Msg: err.Error()}
 			}
 			var v float64
 			switch c.Mode {
@@ -89,6 +103,24 @@ func (pr *Protocol) Expand(initial model.Params) (*Plan, error) {
 		cur = to
 	}
 	return pl, nil
+}
+
+// actsInRun refuses a lever change that would do nothing in a run of
+// circulation c.
+func actsInRun(spec model.Spec, c model.Circulation) error {
+	other := model.Held
+	if c == model.Held {
+		other = model.Closed
+	}
+	switch {
+	case c == model.Closed && spec.Key == "filling_pressure_mmhg":
+		return fmt.Errorf("a closed circulation does not hold the filling pressure during a run: change preload with " +
+			"caval_occlusion_pct (an occlusion) or stressed_volume_ml (volume), or mark the step `circulation: held`")
+	case !spec.ActsIn(c):
+		return fmt.Errorf("%s acts only in the %s circulation and this run is %s: mark the step `circulation: %s`",
+			spec.Key, other, c, other)
+	}
+	return nil
 }
 
 // changeKey names a change of step j in errors.

@@ -69,7 +69,14 @@ type Step struct {
 	Beats   int      // beats the step lasts, at least 1
 	Changes []Change // in file order; empty for hold
 	Line    int      // line of the step in the file
+	// Only, when set, is the one circulation the step runs in; in the other
+	// the step is left out. A preload step is written once for each: a held
+	// filling pressure falls, a closed circulation has its cava occluded.
+	Only *model.Circulation
 }
+
+// RunsIn reports whether the step runs in circulation c.
+func (st *Step) RunsIn(c model.Circulation) bool { return st.Only == nil || *st.Only == c }
 
 // Protocol is a named list of steps that change the levers beat by beat.
 type Protocol struct {
@@ -81,13 +88,20 @@ type Protocol struct {
 	Source      string // file name, or "protocol NAME" for a built-in; labels errors
 }
 
-// TotalBeats returns the number of beats the protocol runs.
-func (pr *Protocol) TotalBeats() int {
+// TotalBeats returns the number of beats the protocol runs in circulation c.
+func (pr *Protocol) TotalBeats(c model.Circulation) int {
 	n := 0
 	for _, s := range pr.Steps {
-		n += s.Beats
+		if s.RunsIn(c) {
+			n += s.Beats
+		}
 	}
 	return n
+}
+
+// maxBeats returns the beats of the longer of the protocol's two runs.
+func (pr *Protocol) maxBeats() int {
+	return max(pr.TotalBeats(model.Held), pr.TotalBeats(model.Closed))
 }
 
 // Levers returns the keys of the parameters the protocol changes, in the
@@ -197,17 +211,15 @@ func ParseProtocol(data []byte, source string) (*Protocol, error) {
 	if stepsNode.Kind != yaml.SequenceNode || len(stepsNode.Content) == 0 {
 		return nil, fe(stepsNode, "steps", "must be a list of one or more steps, each `- label: …` with set, scale, ramp or hold")
 	}
-	total := 0
 	for i, sn := range stepsNode.Content {
 		st, err := parseStep(sn, i, source)
 		if err != nil {
 			return nil, err
 		}
-		total += st.Beats
-		if total > MaxProtocolBeats {
+		pr.Steps = append(pr.Steps, st)
+		if total := pr.maxBeats(); total > MaxProtocolBeats {
 			return nil, fe(sn, stepKey(i), "the protocol reaches %d beats here; at most %d are allowed in all", total, MaxProtocolBeats)
 		}
-		pr.Steps = append(pr.Steps, st)
 	}
 	return pr, nil
 }
@@ -216,7 +228,7 @@ func ParseProtocol(data []byte, source string) (*Protocol, error) {
 func stepKey(i int) string { return fmt.Sprintf("steps[%d]", i+1) }
 
 // stepKeys are the keys of a step.
-const stepKeys = "label, set, scale, ramp, hold, beats"
+const stepKeys = "label, set, scale, ramp, hold, beats, circulation"
 
 // parseStep decodes step i of the list.
 func parseStep(n *yaml.Node, i int, file string) (Step, error) {
@@ -249,6 +261,12 @@ func parseStep(n *yaml.Node, i int, file string) (Step, error) {
 			st.Kind, kindNode = StepKind(k.Value), v
 		case "beats":
 			beatsNode = v
+		case "circulation":
+			c, err := model.ParseCirculation(v.Value)
+			if v.Kind != yaml.ScalarNode || err != nil {
+				return fe(v, key, "%q: allowed held or closed (the step runs only in that circulation)", v.Value)
+			}
+			st.Only = &c
 		default:
 			return fe(k, key, "unknown key; allowed: %s", stepKeys)
 		}

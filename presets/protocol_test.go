@@ -33,8 +33,8 @@ func TestBuiltinProtocolsLoadAndDescribeThemselves(t *testing.T) {
 		if !strings.HasPrefix(pr.Notes, "Invented") || !strings.Contains(strings.Join(strings.Fields(pr.Notes), " "), "not for treating patients") {
 			t.Errorf("%s: notes should label the protocol as our own invention, for planning only", n)
 		}
-		if len(pr.Levers()) == 0 || pr.TotalBeats() < 10 {
-			t.Errorf("%s: changes %v over %d beats", n, pr.Levers(), pr.TotalBeats())
+		if len(pr.Levers()) == 0 || pr.TotalBeats(model.Held) < 10 {
+			t.Errorf("%s: changes %v over %d beats", n, pr.Levers(), pr.TotalBeats(model.Held))
 		}
 	}
 	for _, bad := range []string{"nosuch", "../presets/protocols/rate-steps", "", "rate-steps.yaml"} {
@@ -70,19 +70,25 @@ func TestBuiltinProtocolChangesCiteTheirSource(t *testing.T) {
 	}
 }
 
-// Every built-in runs on every preset: its levers stay in range.
+// Every built-in runs on every preset in both circulations: its levers stay
+// in range.
 func TestBuiltinProtocolsExpandOnEveryPreset(t *testing.T) {
 	for _, pn := range ProtocolNames() {
 		pr, _ := GetProtocol(pn)
 		for _, sn := range Names() {
-			sc, _ := Get(sn)
-			pl, err := pr.Expand(sc.Params)
-			if err != nil {
-				t.Errorf("%s on %s: %v", pn, sn, err)
-				continue
-			}
-			if len(pl.Params) != pr.TotalBeats() || len(pl.Steps) != len(pl.Params) {
-				t.Errorf("%s on %s: %d beats planned, protocol has %d", pn, sn, len(pl.Params), pr.TotalBeats())
+			for _, c := range []model.Circulation{model.Held, model.Closed} {
+				sc, _ := Get(sn)
+				if err := sc.SetCirculation(c); err != nil {
+					t.Fatal(err)
+				}
+				pl, err := pr.Expand(sc.Params)
+				if err != nil {
+					t.Errorf("%s on %s, %s: %v", pn, sn, c, err)
+					continue
+				}
+				if len(pl.Params) != pr.TotalBeats(c) || len(pl.Steps) != len(pl.Params) {
+					t.Errorf("%s on %s: %d beats planned, protocol has %d", pn, sn, len(pl.Params), pr.TotalBeats(c))
+				}
 			}
 		}
 	}
@@ -133,8 +139,8 @@ func TestParseProtocolForms(t *testing.T) {
 			}
 		}
 	}
-	if pr.TotalBeats() != 10 {
-		t.Errorf("total %d beats, want 10", pr.TotalBeats())
+	if pr.TotalBeats(model.Held) != 10 {
+		t.Errorf("total %d beats, want 10", pr.TotalBeats(model.Held))
 	}
 	if got := strings.Join(pr.Levers(), " "); got != "filling_pressure_mmhg ees_mmhg_per_ml resistance_mmhg_s_per_ml heart_rate_bpm compliance_ml_per_mmhg" {
 		t.Errorf("levers %s (want model.Specs order)", got)

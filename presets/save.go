@@ -20,7 +20,9 @@ var ErrExists = errors.New("file exists")
 
 // Marshal returns the scenario as YAML in schema version 1, every parameter
 // written with the shortest decimal that reads back exactly, in the order of
-// model.Specs. A scenario saved and loaded again solves to the same numbers.
+// model.Specs. A scenario saved and loaded again solves to the same numbers:
+// a closed circulation is written with its stressed volume, and its filling
+// pressure should be the mean LAP that volume gives (model.Steady.Settled).
 func (s *Scenario) Marshal() ([]byte, error) {
 	root := &yaml.Node{Kind: yaml.MappingNode}
 	add := func(key string, v *yaml.Node) {
@@ -41,6 +43,7 @@ func (s *Scenario) Marshal() ([]byte, error) {
 	if s.Notes != "" {
 		add("notes", str(s.Notes))
 	}
+	add("circulation", str(s.Params.Circulation.String()))
 	add("params", paramsNode(s.Params))
 	if s.Baseline != nil {
 		add("baseline", paramsNode(*s.Baseline))
@@ -59,9 +62,14 @@ func (s *Scenario) Marshal() ([]byte, error) {
 	return b.Bytes(), nil
 }
 
+// paramsNode lists every parameter but the stressed volume of a held
+// circulation, which has none.
 func paramsNode(p model.Params) *yaml.Node {
 	n := &yaml.Node{Kind: yaml.MappingNode}
 	for _, s := range model.Specs {
+		if s.Key == "stressed_volume_ml" && p.Circulation != model.Closed {
+			continue
+		}
 		n.Content = append(n.Content,
 			&yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: s.Key},
 			numberNode(s.Get(p)))

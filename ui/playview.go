@@ -48,6 +48,8 @@ type playView struct {
 	cacheF   frame
 	cache    string
 	intro    string // the text shown without a run, for this size
+	// introCirc is the circulation the intro counts beats for.
+	introCirc model.Circulation
 
 	// The loops before the beat on screen, drawn once: playing on adds one
 	// loop a beat rather than drawing them all again.
@@ -143,10 +145,10 @@ func (v *playView) readouts(*state) (readoutSource, bool) {
 }
 
 // Render implements view.
-func (v *playView) Render(*state) string {
+func (v *playView) Render(st *state) string {
 	if v.run == nil {
-		if v.intro == "" {
-			v.intro = v.renderIntro()
+		if v.intro == "" || v.introCirc != st.target.Circulation {
+			v.intro, v.introCirc = v.renderIntro(st.target.Circulation), st.target.Circulation
 		}
 		return v.intro
 	}
@@ -327,7 +329,7 @@ func (v *playView) renderPlot() string {
 
 // renderIntro is the view before a protocol is picked: what it does, the
 // built-in protocols and how to play one.
-func (v *playView) renderIntro() string {
+func (v *playView) renderIntro(circ model.Circulation) string {
 	s := v.s
 	wrap := func(t string) []string { return strings.Split(ansi.Wrap(t, v.w-2, " "), "\n") }
 	hint := "P picks a protocol to play from the levers now (or a file of your own)."
@@ -344,7 +346,7 @@ func (v *playView) renderIntro() string {
 		if err != nil {
 			continue
 		}
-		lines = append(lines, fmt.Sprintf("  %-20s", n)+s.Dim.Render(fmt.Sprintf("%3d beats", pr.TotalBeats())))
+		lines = append(lines, fmt.Sprintf("  %-20s", n)+s.Dim.Render(fmt.Sprintf("%3d beats", pr.TotalBeats(circ))))
 	}
 	lines = append(lines, "")
 	for _, l := range wrap("A protocol changes the levers beat by beat. Its loops are drawn as a family " +

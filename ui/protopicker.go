@@ -26,7 +26,7 @@ func (m *Model) openProtocols() {
 	for i, n := range presets.ProtocolNames() {
 		d := ""
 		if pr, err := presets.GetProtocol(n); err == nil {
-			d = fmt.Sprintf("%3d beats  %s", pr.TotalBeats(), pr.Description)
+			d = fmt.Sprintf("%3d beats  %s", pr.TotalBeats(m.st.target.Circulation), pr.Description)
 		}
 		m.picker.names = append(m.picker.names, n)
 		m.picker.descs = append(m.picker.descs, d)

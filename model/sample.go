@@ -1,0 +1,179 @@
+package model
+
+import "math"
+
+// sample turns the dense record of the last integrated beat into a Beat.
+func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
+	c := &s.c
+	period := c.act.Period
+	dt := s.SampleInterval
+	if !(dt > 0) {
+		dt = DefaultSampleInterval
+	}
+	n := int(math.Floor(period/dt+1e-9)) + 1
+	extra := []float64{s.valves.MitralClose, s.valves.AorticOpen, s.valves.AorticClose, s.valves.MitralOpen}
+	times := make([]float64, 0, n+len(extra)+1)
+	for i := 0; i < n; i++ {
+		times = append(times, float64(i)*dt)
+	}
+	if last := times[len(times)-1]; period-last > 1e-9 {
+		times = append(times, period)
+	} else {
+		times[len(times)-1] = period
+	}
+	times = mergeTimes(times, extra)
+
+	b := &Beat{Params: s.p, Start: start, End: end, Period: period, T: times, Valves: s.valves, LAPMean: lap}
+	m := len(times)
+	dim := c.dim()
+	comps := dim
+	if c.closed {
+		comps = int(NumCompartments)
+	}
+	// One allocation: the volumes (and ∫P_LA), the pressures, then the flows.
+	nflow := 4
+	if c.closed {
+		nflow = 6
+	}
+	buf := make([]float64, (dim+comps+nflow)*m)
+	cols := make([][]float64, dim)
+	for i := range cols {
+		cols[i], buf = buf[:m:m], buf[m:]
+	}
+	for i := 0; i < comps; i++ {
+		b.V[i] = cols[i]
+		b.P[i], buf = buf[:m:m], buf[m:]
+	}
+	b.PAO, buf = buf[:m:m], buf[m:]
+	b.QIn, buf = buf[:m:m], buf[m:]
+	b.QOut, buf = buf[:m:m], buf[m:]
+	b.DPdt, buf = buf[:m:m], buf[m:]
+	if c.closed {
+		b.QTricuspid, buf = buf[:m:m], buf[m:]
+		b.QPulmonic = buf[:m:m]
+	}
+	b.VLV, b.PLV = b.V[LeftVentricle], b.P[LeftVentricle]
+	s.dense.Eval(times, cols)
+
+	grid := s.activationGrid(dt, n)
+	y := make([]float64, dim)
+	j := 0 // next time of the uniform grid
+	for i, t := range times {
+		var e, de float64
+		if j < len(grid.e) && t == float64(j)*dt {
+			e, de = grid.e[j], grid.de[j]
+			j++
+		} else {
+			e, de = c.act.EDeriv(t)
+		}
+		for k := range y {
+			y[k] = cols[k][i]
+		}
+		p := c.pressuresAt(t, e, y)
+		// The flows as the valves let them pass: a valve is open where its
+		// driving pressure is positive (the events put the switches on zeros).
+		f := c.openFlowsAt(p)
+		for k := 0; k < comps; k++ {
+			b.P[k][i] = p[k]
+		}
+		_, dpdv, dpde := c.lv.pressureAndSlopes(e, y[LeftVentricle])
+		b.QIn[i], b.QOut[i] = f.mitral, f.aortic
+		b.PAO[i] = p[SystemicArteries] + c.zc*f.aortic
+		b.DPdt[i] = dpde*de + dpdv*(f.mitral-f.aortic)
+		if c.closed {
+			b.QTricuspid[i], b.QPulmonic[i] = f.tricuspid, f.pulmonic
+		}
+	}
+	m2, err := Measure(b.Samples(), s.p.Known())
+	if err != nil {
+		return nil, err
+	}
+	b.Metrics = m2
+	s.measureCirculation(b)
+	return b, nil
+}
+
+// pressuresAt returns the pressures at (t, y) with the ventricular activation e
+// given, bypassing the cache.
+func (c *circuit) pressuresAt(t, e float64, y []float64) [NumCompartments]float64 {
+	var p [NumCompartments]float64
+	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
+	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries])
+	if c.closed {
+		ea := c.atr.E(t)
+		p[SystemicVeins] = c.sv.pressure(y[SystemicVeins])
+		p[RightAtrium] = c.atria.pressure(ea, y[RightAtrium])
+		p[RightVentricle] = c.rv.pressure(e, y[RightVentricle])
+		p[PulmonaryArteries] = c.pa.pressure(y[PulmonaryArteries])
+		p[PulmonaryVeins] = c.pv.pressure(y[PulmonaryVeins])
+		p[LeftAtrium] = c.atria.pressure(ea, y[LeftAtrium])
+	} else {
+		p[SystemicVeins] = c.pv0
+		p[LeftAtrium] = c.fill
+	}
+	return p
+}
+
+// openFlowsAt returns the flows at the pressures p with every valve open
+// where its driving pressure is positive.
+func (c *circuit) openFlowsAt(p [NumCompartments]float64) flows {
+	saved := c.valves
+	c.valves[mitralValve].open = p[LeftAtrium] > p[LeftVentricle]
+	c.valves[aorticValve].open = p[LeftVentricle] > p[SystemicArteries]
+	c.valves[tricuspidValve].open = p[RightAtrium] > p[RightVentricle]
+	c.valves[pulmonicValve].open = p[RightVentricle] > p[PulmonaryArteries]
+	f := c.flowsAt(&p)
+	c.valves = saved
+	return f
+}
+
+// actGrid holds e(t) and de/dt on the uniform sample grid of one beat period.
+type actGrid struct {
+	period, tpeak, dt float64
+	e, de             []float64
+}
+
+// activationGrid returns the activation on the first n times of the grid
+// i·dt, computed once per heart rate and sample interval: the steady states
+// of a session share them, and evaluating them is a good part of sampling.
+func (s *Solver) activationGrid(dt float64, n int) *actGrid {
+	g := &s.grid
+	a := &s.c.act
+	if g.period != a.Period || g.tpeak != a.TPeak || g.dt != dt || len(g.e) != n {
+		g.period, g.tpeak, g.dt = a.Period, a.TPeak, dt
+		g.e, g.de = make([]float64, n), make([]float64, n)
+		for i := range g.e {
+			g.e[i], g.de[i] = a.EDeriv(float64(i) * dt)
+		}
+	}
+	return g
+}
+
+// mergeTimes inserts the finite values of extra into the sorted times, skipping
+// ones that fall on an existing time.
+func mergeTimes(times, extra []float64) []float64 {
+	for _, t := range extra {
+		if !finite(t) {
+			continue
+		}
+		i := 0
+		for i < len(times) && times[i] < t {
+			i++
+		}
+		if i < len(times) && times[i]-t < 1e-9 || i > 0 && t-times[i-1] < 1e-9 {
+			continue
+		}
+		times = append(times, 0)
+		copy(times[i+1:], times[i:])
+		times[i] = t
+	}
+	return times
+}
+
+// Known returns what the model knows of its own heart and load, for Measure.
+func (p Params) Known() Known {
+	return Known{
+		V0: p.V0, Ees: p.Ees, EdpvrA: p.EdpvrA, EdpvrB: p.EdpvrB,
+		WallVolume: p.WallVolume, Resistance: p.Resistance + p.Zc, Compliance: p.Compliance,
+	}
+}
