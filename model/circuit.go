@@ -61,18 +61,18 @@ const (
 // valve → LV. In the held circuit the left atrium is a pressure source at the
 // filling pressure and the systemic veins a sink at the venous pressure.
 type circuit struct {
-	closed   bool
-	lv, rv   ventricle
-	atria    atrium
-	sa       vessel // systemic arteries: compliance C
-	sv       vessel // systemic veins
-	pa, pv   vessel // pulmonary arteries and veins
-	valves   [numValves]valve
-	zc, r    float64 // Windkessel Zc and R
-	rvr, rp  float64 // venous return (with any caval occlusion) and pulmonary resistance
+	closed    bool
+	lv, rv    ventricle
+	atria     atrium
+	sa        vessel // systemic arteries: compliance C
+	sv        vessel // systemic veins
+	pa, pv    vessel // pulmonary arteries and veins
+	valves    [numValves]valve
+	zc, r     float64 // Windkessel Zc and R
+	rvr, rp   float64 // venous return (with any caval occlusion) and pulmonary resistance
 	fill, pv0 float64 // held: left-atrial and venous pressure
-	act      Activation
-	atr      atrialActivation
+	act       Activation
+	atr       atrialActivation
 
 	// Cache of the pressures of the last (t, y) evaluated: the events are
 	// evaluated at the end of each step, where rhs has just been (FSAL).
