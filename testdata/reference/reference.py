@@ -1,21 +1,46 @@
 #!/usr/bin/env python3
 """Independent reference solution of pvcouple's model with SciPy.
 
-Reads the JSON printed by `pvcouple solve --format json` on stdin, integrates
-the same equations with scipy.integrate.solve_ivp (DOP853, tight tolerances,
-valve openings and closings as terminal events), runs beats one after another
-until the start-of-beat state repeats (plain repetition, not pvcouple's
-Newton shooting), measures the last beat with numpy/scipy and prints the same
-JSON shape: params, metrics, timing.
+Reads a JSON document with "circulation" ("held" or "closed") and "params"
+(the keys of `pvcouple params`) on stdin, as `pvcouple solve --format json`
+prints it; everything else in the input is ignored. It integrates the model
+with scipy.integrate.solve_ivp (DOP853, tight tolerances, every valve opening
+and closing a terminal event), repeats beats one after another until the
+start-of-beat state stops changing (plain repetition, not pvcouple's Newton
+shooting), measures the last beat and prints params, metrics and timing as
+JSON. Metrics that a circulation does not have are null.
 
-Equations (see model/doc.go and docs/science.md):
-  e(t)  double-Hill, Stergiopulos et al. 1996 set B, Mynard et al. 2012 end
-        correction, normalised numerically to peak 1; peak elastance at
-        t_peak = 0.8*QS2, QS2 = 0.546 - 0.0021*HR s (Weissler et al. 1968)
-  P_lv  = e*Ees*(V-V0) + (1-e)*A*(exp(B*(V-V0))-1)
-  Q_in  = (P_la - P_lv)/R_mv   while the mitral valve is open
-  Q_out = (P_lv - P_c)/(R_av + Zc) while the aortic valve is open
-  dV/dt = Q_in - Q_out;  C dP_c/dt = Q_out - (P_c - P_v)/R;  P_ao = P_c + Zc*Q_out
+    go build -o /tmp/pvcouple . &&
+    /tmp/pvcouple solve --preset normal --circulation closed --format json |
+        /usr/bin/python3 testdata/reference/reference.py
+
+The equations, written from docs/science.md:
+
+  activation (§1, §10): double-Hill set B, n1 = 1.32, n2 = 21.9,
+      a1 = 0.708 t_peak, a2 = 1.677 a1, t_peak = 0.8 (0.546 - 0.0021 HR) s,
+      the relaxation factor's end-of-beat value subtracted (Mynard 2012),
+      scaled numerically to a peak of exactly 1
+  ventricles (§1): P = e Ees (V - V0) + (1 - e) A (exp(B (V - V0)) - 1)
+  arteries (§2): P_sa = (V_sa - Vu_sa)/C, P_ao = P_sa + Zc Q_aortic,
+      Q_aortic = (P_lv - P_sa)/(R_av + Zc) while the valve is open
+  held (§2): LV fills from the filling pressure through the mitral valve,
+      the arteries drain through R to the venous pressure
+  closed (§9): vessels P = (V - Vu)/C with Vu 600 / 2500 / 90 / 400 mL
+      (systemic arteries / veins / pulmonary arteries / veins); atria
+      P = (Emin + ea (Emax - Emin)) (V - 4 mL); flows through R (systemic),
+      R_vr/(1 - occlusion) (venous return), tricuspid 0.005, pulmonary valve
+      0.003, R_p (pulmonary), 0.015 (pulmonary veins to LA, no valve), R_mv;
+      atrial activation ea(t) = f(t + PR) + f(t - (T - PR)), half-cosine f
+      over Ta = 0.2 sqrt(T) s
+  valves: one-way, open while the pressure across them is positive.
+
+Measurements (model/metrics.go defines them; computed here on the beat's own
+1 kHz samples plus the left-heart valve events, as a catheter would record
+them; time means and the loop area are integrals carried by the ODE):
+end-diastole is the largest volume before peak dP/dt, end-systole the sample
+of largest P/(V - V0) above a floor, SV = EDV - smallest volume, PE and PVA
+after Suga, VO2 by the per-100 g relation of Khalafbeigui, Suga & Sagawa 1979,
+Weiss tau, Grossman's meridional wall stress.
 """
 import json
 import math
@@ -23,200 +48,390 @@ import sys
 import time
 
 import numpy as np
+import scipy
 from scipy import integrate, optimize, stats
 
-N1, N2 = 1.32, 21.9
+# Double-Hill set B (docs/science.md §1) and Weissler's QS2 (§10).
+HILL_N1, HILL_N2, HILL_A1, HILL_A2 = 1.32, 21.9, 0.708, 1.677
+# Unstressed volumes (docs/science.md §9), mL.
+VU = {"sa": 600.0, "sv": 2500.0, "pa": 90.0, "pv": 400.0, "atrium": 4.0}
+# Fixed resistances of the closed circulation (docs/science.md §9), mmHg s/mL.
+R_TRICUSPID, R_PULMONIC, R_PV_LA = 0.005, 0.003, 0.015
+# Integration tolerances of the reference.
+RTOL, ATOL = 1e-11, 1e-10
+# Longest step, s: while a ventricle's valves are shut its volume stands still
+# and the error control alone would step over a brief valve opening.
+MAX_STEP = 0.004
 
 
-class Activation:
+class Ventricular:
+    """The normalised ventricular elastance e(t) over one beat."""
+
     def __init__(self, hr):
         self.period = 60.0 / hr
         tpeak = 0.8 * (0.546 - 0.0021 * hr)
-        self.a1 = 0.708 * tpeak
-        self.a2 = 1.677 * self.a1
-        self.c = 1.0 / (1.0 + (self.period / self.a2) ** N2)
-        self.k = 1.0
-        res = optimize.minimize_scalar(lambda t: -self.e(t), bounds=(1e-6, self.period),
-                                       method="bounded", options={"xatol": 1e-12})
-        self.k = 1.0 / self.e(res.x)
+        self.a1 = HILL_A1 * tpeak
+        self.a2 = HILL_A2 * self.a1
+        self.tail = 1.0 / (1.0 + (self.period / self.a2) ** HILL_N2)
+        self.scale = 1.0
+        # The single maximum is where the derivative vanishes.
+        tmax = optimize.brentq(lambda t: self.value_and_rate(t)[1], 1e-4 * self.period, self.period,
+                               xtol=1e-15)
+        self.scale = 1.0 / self.value_and_rate(tmax)[0]
 
-    def e(self, t):
-        if t <= 0:
+    def value_and_rate(self, t):
+        if t <= 0.0:
+            return 0.0, 0.0
+        u = (t / self.a1) ** HILL_N1
+        w = (t / self.a2) ** HILL_N2
+        rise = u / (1.0 + u)
+        fall = 1.0 / (1.0 + w) - self.tail
+        drise = HILL_N1 * u / (t * (1.0 + u) ** 2)
+        dfall = -HILL_N2 * w / (t * (1.0 + w) ** 2)
+        return self.scale * rise * fall, self.scale * (drise * fall + rise * dfall)
+
+
+class Atrial:
+    """The atrial activation ea(t): two half-cosine twitches, one begun PR
+    before this beat and one PR before the next."""
+
+    def __init__(self, hr, pr_ms):
+        self.period = 60.0 / hr
+        self.pr = pr_ms / 1000.0
+        self.ta = 0.2 * math.sqrt(self.period)
+        self.onsets = (-self.pr, self.period - self.pr)
+
+    def twitch(self, s):
+        ta = self.ta
+        if s <= 0.0 or s >= ta:
             return 0.0
-        g1 = (t / self.a1) ** N1
-        g2 = (t / self.a2) ** N2
-        return self.k * g1 / (1 + g1) * (1 / (1 + g2) - self.c)
+        if s < 2.0 * ta / 3.0:
+            return 0.5 * (1.0 - math.cos(1.5 * math.pi * s / ta))
+        return 0.5 * (1.0 + math.cos(3.0 * math.pi * s / ta - 2.0 * math.pi))
 
-    def de(self, t, h=1e-7):
-        return (self.e(t + h) - self.e(max(t - h, 0.0))) / (t + h - max(t - h, 0.0))
+    def value(self, t):
+        return sum(self.twitch(t - on) for on in self.onsets)
+
+    def active(self, t):
+        return any(0.0 < t - on < self.ta for on in self.onsets)
+
+    def kinks(self):
+        """Times within the beat where ea is not smooth: onsets, peaks, ends."""
+        out = []
+        for on in self.onsets:
+            for s in (0.0, 2.0 * self.ta / 3.0, self.ta):
+                if 0.0 < on + s < self.period:
+                    out.append(on + s)
+        return sorted(out)
 
 
-class Model:
-    def __init__(self, p):
+def chamber(e, v, ees, v0, a, b):
+    """Ventricular pressure and its partial derivatives in e and V."""
+    x = v - v0
+    passive = a * math.expm1(b * x)
+    active = ees * x
+    return (e * active + (1.0 - e) * passive, active - passive,
+            e * ees + (1.0 - e) * a * b * math.exp(b * x))
+
+
+class Circuit:
+    """The model of one circulation. State: compartment volumes (mL), then
+    integrals carried over the beat for the measurements."""
+
+    def __init__(self, circulation, p):
+        if circulation not in ("held", "closed"):
+            raise SystemExit(f"reference: circulation {circulation!r}: want held or closed")
+        self.closed = circulation == "closed"
         self.p = p
-        self.act = Activation(p["heart_rate_bpm"])
+        self.vent = Ventricular(p["heart_rate_bpm"])
+        self.period = self.vent.period
+        self.lv = (p["ees_mmhg_per_ml"], p["v0_ml"], p["edpvr_a_mmhg"], p["edpvr_b_per_ml"])
+        self.r_aortic = p["aortic_resistance_mmhg_s_per_ml"] + p["zc_mmhg_s_per_ml"]
+        if self.closed:
+            self.atrial = Atrial(p["heart_rate_bpm"], p["pr_interval_ms"])
+            self.rv = (p["rv_ees_mmhg_per_ml"], p["rv_v0_ml"], p["rv_edpvr_a_mmhg"], p["rv_edpvr_b_per_ml"])
+            self.r_return = p["venous_return_resistance_mmhg_s_per_ml"] / (1.0 - p["caval_occlusion_pct"] / 100.0)
+            self.names = ["lv", "sa", "sv", "ra", "rv", "pa", "pv", "la"]
+            self.valves = [("la", "lv", p["mitral_resistance_mmhg_s_per_ml"]), ("lv", "sa", self.r_aortic),
+                           ("ra", "rv", R_TRICUSPID), ("rv", "pa", R_PULMONIC)]
+        else:
+            self.names = ["lv", "sa"]
+            self.valves = [("la", "lv", p["mitral_resistance_mmhg_s_per_ml"]), ("lv", "sa", self.r_aortic)]
+        self.n = len(self.names)
+        # Integrals: P_ao, P_la, P_ra, P_pa, mitral inflow, mitral inflow while
+        # the atria contract, and the LV's external work P (Q_out - Q_in).
+        self.integrals = ["pao", "pla", "pra", "ppa", "qin", "qin_atrial", "work"]
 
-    def plv(self, t, v):
+    def unstressed(self):
         p = self.p
-        x = v - p["v0_ml"]
-        e = self.act.e(t)
-        return e * p["ees_mmhg_per_ml"] * x + (1 - e) * p["edpvr_a_mmhg"] * math.expm1(p["edpvr_b_per_ml"] * x)
+        return {"lv": p["v0_ml"], "sa": VU["sa"], "sv": VU["sv"], "ra": VU["atrium"], "rv": p["rv_v0_ml"],
+                "pa": VU["pa"], "pv": VU["pv"], "la": VU["atrium"]}
 
-    def rhs(self, t, y, mitral, aortic):
+    def pressures(self, t, y):
         p = self.p
-        v, pc = y
-        plv = self.plv(t, v)
-        qin = (p["filling_pressure_mmhg"] - plv) / p["mitral_resistance_mmhg_s_per_ml"] if mitral else 0.0
-        qout = (plv - pc) / (p["aortic_resistance_mmhg_s_per_ml"] + p["zc_mmhg_s_per_ml"]) if aortic else 0.0
-        return [qin - qout, (qout - (pc - p["venous_pressure_mmhg"]) / p["resistance_mmhg_s_per_ml"])
-                / p["compliance_ml_per_mmhg"]]
+        e, de = self.vent.value_and_rate(t)
+        P = {}
+        plv, dpde, dpdv = chamber(e, y[0], *self.lv)
+        P["lv"] = plv
+        P["sa"] = (y[1] - VU["sa"]) / p["compliance_ml_per_mmhg"]
+        if self.closed:
+            ea = self.atrial.value(t)
+            atrial_e = p["atrial_emin_mmhg_per_ml"] + ea * (p["atrial_emax_mmhg_per_ml"] - p["atrial_emin_mmhg_per_ml"])
+            P["sv"] = (y[2] - VU["sv"]) / p["venous_compliance_ml_per_mmhg"]
+            P["ra"] = atrial_e * (y[3] - VU["atrium"])
+            P["rv"] = chamber(e, y[4], *self.rv)[0]
+            P["pa"] = (y[5] - VU["pa"]) / p["pulmonary_compliance_ml_per_mmhg"]
+            P["pv"] = (y[6] - VU["pv"]) / p["pulmonary_venous_compliance_ml_per_mmhg"]
+            P["la"] = atrial_e * (y[7] - VU["atrium"])
+        else:
+            P["sv"] = p["venous_pressure_mmhg"]
+            P["la"] = p["filling_pressure_mmhg"]
+        return P, (de, dpde, dpdv)
 
-    def beat(self, y0, keep=False):
-        """Integrates one beat from y0; returns the end state and, if keep, the segments."""
+    def valve_flows(self, P, open_):
+        return [(P[a] - P[b]) / r if o else 0.0 for (a, b, r), o in zip(self.valves, open_)]
+
+    def derivative(self, t, y, open_, atrial_window, with_integrals):
         p = self.p
-        period = self.act.period
-        y = np.array(y0, dtype=float)
-        plv0 = self.plv(0.0, y[0])
-        mitral = p["filling_pressure_mmhg"] > plv0
-        aortic = plv0 > y[1]
-        t, segments, events = 0.0, [], {}
-        for _ in range(40):
-            def g_mitral(t, y):
-                return p["filling_pressure_mmhg"] - self.plv(t, y[0])
+        P, _ = self.pressures(t, y)
+        q = self.valve_flows(P, open_)
+        q_mitral, q_aortic = q[0], q[1]
+        q_systemic = (P["sa"] - P["sv"]) / p["resistance_mmhg_s_per_ml"]
+        if self.closed:
+            q_return = (P["sv"] - P["ra"]) / self.r_return
+            q_tricuspid, q_pulmonic = q[2], q[3]
+            q_lungs = (P["pa"] - P["pv"]) / p["pulmonary_resistance_mmhg_s_per_ml"]
+            q_veins_la = (P["pv"] - P["la"]) / R_PV_LA
+            dv = [q_mitral - q_aortic, q_aortic - q_systemic, q_systemic - q_return, q_return - q_tricuspid,
+                  q_tricuspid - q_pulmonic, q_pulmonic - q_lungs, q_lungs - q_veins_la, q_veins_la - q_mitral]
+        else:
+            dv = [q_mitral - q_aortic, q_aortic - q_systemic]
+        if not with_integrals:
+            return dv
+        pao = P["sa"] + p["zc_mmhg_s_per_ml"] * q_aortic
+        return dv + [pao, P["la"], P.get("ra", 0.0), P.get("pa", 0.0), q_mitral,
+                     q_mitral if atrial_window else 0.0, P["lv"] * (q_aortic - q_mitral)]
 
-            def g_aortic(t, y):
-                return self.plv(t, y[0]) - y[1]
+    def beat(self, start, keep=False, rtol=RTOL, atol=ATOL):
+        """Integrates one beat from the start volumes. Returns the end volumes,
+        the integrals, and (keep) the segments and valve events."""
+        period = self.period
+        y = np.concatenate([np.asarray(start, float), np.zeros(len(self.integrals) if keep else 0)])
+        atols = np.full(len(y), atol)
+        P, _ = self.pressures(0.0, y)
+        open_ = [P[a] > P[b] for a, b, _ in self.valves]
+        stops = (self.atrial.kinks() if self.closed else []) + [period]
+        t, segments, events = 0.0, [], []
+        for stop in stops:
+            switches = 0
+            while t < stop:
+                switches += 1
+                if switches > 40:
+                    raise SystemExit("reference: valves switched too often in one beat")
+                # The atrial window opens and shuts only at segment ends (the
+                # kinks), so its middle tells whether this piece lies inside.
+                window = self.closed and self.atrial.active(0.5 * (t + stop))
+                fns = []
+                for i, (a, b, _) in enumerate(self.valves):
+                    def g(t, y, a=a, b=b):
+                        P, _ = self.pressures(t, y)
+                        return P[a] - P[b]
+                    g.terminal = True
+                    g.direction = -1 if open_[i] else 1
+                    fns.append(g)
+                state = list(open_)
+                sol = integrate.solve_ivp(lambda t, y: self.derivative(t, y, state, window, keep), (t, stop), y,
+                                          method="DOP853", rtol=rtol, atol=atols, events=fns, dense_output=keep,
+                                          max_step=MAX_STEP)
+                if not sol.success:
+                    raise SystemExit("reference: " + sol.message)
+                if keep:
+                    segments.append((sol.t[0], sol.t[-1], sol.sol, state))
+                y, t = sol.y[:, -1], sol.t[-1]
+                if sol.status == 1:
+                    hits = [(te[0], i) for i, te in enumerate(sol.t_events) if len(te)]
+                    _, i = min(hits)
+                    open_[i] = not open_[i]
+                    events.append((t, i, open_[i]))
+            t = stop
+        return y[:self.n], y[self.n:], segments, events
 
-            g_mitral.terminal = g_aortic.terminal = True
-            g_mitral.direction = -1 if mitral else 1
-            g_aortic.direction = -1 if aortic else 1
-            def f(t, y, mitral=mitral, aortic=aortic):
-                return self.rhs(t, y, mitral, aortic)
-
-            sol = integrate.solve_ivp(f, (t, period), y, method="DOP853", rtol=1e-11, atol=1e-10,
-                                      max_step=0.004, events=[g_mitral, g_aortic],
-                                      dense_output=keep)
-            if not sol.success:
-                raise RuntimeError(sol.message)
-            if keep:
-                segments.append((sol.t[0], sol.t[-1], sol.sol))
-            y = sol.y[:, -1]
-            t = sol.t[-1]
-            if sol.status == 1:
-                hit = [i for i, te in enumerate(sol.t_events) if len(te)]
-                i = min(hit, key=lambda i: sol.t_events[i][0])
-                if i == 0:
-                    mitral = not mitral
-                    events.setdefault("mitral_open" if mitral else "mitral_close", t)
-                else:
-                    aortic = not aortic
-                    events.setdefault("aortic_open" if aortic else "aortic_close", t)
-            if t >= period - 1e-12:
-                return y, segments, events
-        raise RuntimeError("valves switched too often in one beat")
+    def initial(self):
+        """A start state: the LV filled to the filling pressure, the other
+        compartments at rough resting pressures, the systemic veins holding the
+        rest of the stressed volume."""
+        p = self.p
+        fill = p["filling_pressure_mmhg"]
+        lv = p["v0_ml"] + math.log1p(fill / p["edpvr_a_mmhg"]) / p["edpvr_b_per_ml"]
+        sa = VU["sa"] + p["compliance_ml_per_mmhg"] * 80.0
+        if not self.closed:
+            return [lv, sa]
+        u = self.unstressed()
+        x = {"lv": lv, "sa": sa,
+             "ra": u["ra"] + 4.0 / p["atrial_emin_mmhg_per_ml"],
+             "rv": p["rv_v0_ml"] + math.log1p(4.0 / p["rv_edpvr_a_mmhg"]) / p["rv_edpvr_b_per_ml"],
+             "pa": VU["pa"] + 15.0 * p["pulmonary_compliance_ml_per_mmhg"],
+             "pv": VU["pv"] + (fill + 2.0) * p["pulmonary_venous_compliance_ml_per_mmhg"],
+             "la": u["la"] + fill / p["atrial_emin_mmhg_per_ml"]}
+        x["sv"] = p["stressed_volume_ml"] + sum(u.values()) - sum(x.values())
+        return [x[k] for k in self.names]
 
 
-def measure(model, segments, events):
-    """The measurements of a beat, defined as in model/metrics.go, computed here independently."""
-    p, act = model.p, model.act
-    period = act.period
-    ts = np.arange(0.0, period + 1e-12, 1e-3)
-    ts[-1] = period
-    extra = [v for v in events.values() if 0 < v < period]
-    ts = np.unique(np.concatenate([ts, extra]))
-    keep = np.concatenate([[True], np.diff(ts) > 1e-9])
-    ts = ts[keep]
-    vs, pcs = np.empty_like(ts), np.empty_like(ts)
-    for i, t in enumerate(ts):
-        for (a, b, f) in segments:
-            if a <= t <= b:
-                vs[i], pcs[i] = f(t)
+def steady(circ, tol=1e-10, max_beats=3000):
+    """Repeats beats until the start state changes by less than tol (relative,
+    floor 10 mL) and the geometric tail of the remaining changes, estimated
+    from the ratio of successive changes, is below tol too (or the change
+    is a hundredth of tol, in the rounding noise). A looser
+    integration brings the state near; the tight one finishes."""
+    y = np.array(circ.initial())
+    beats, last = 0, None
+    for rtol, goal in ((1e-8, 1e-7), (RTOL, tol)):
+        last = None
+        while True:
+            beats += 1
+            if beats > max_beats:
+                raise SystemExit(f"reference: no steady state after {max_beats} beats")
+            y1 = circ.beat(y, rtol=rtol, atol=ATOL if rtol == RTOL else 1e-7)[0]
+            change = float(np.max(np.abs(y1 - y) / np.maximum(np.abs(y), 10.0)))
+            y = y1
+            if not np.all(np.isfinite(y)):
+                raise SystemExit("reference: the state left the finite numbers")
+            ratio = change / last if last else 1.0
+            last = change
+            tail = change * ratio / (1.0 - ratio) if ratio < 1.0 else math.inf
+            if change < goal and (tail < goal or change < 0.01 * goal):
                 break
-    v0 = p["v0_ml"]
-    e = np.array([act.e(t) for t in ts])
-    de = np.array([act.de(t) for t in ts])
-    x = vs - v0
-    A, B, ees = p["edpvr_a_mmhg"], p["edpvr_b_per_ml"], p["ees_mmhg_per_ml"]
-    plv = e * ees * x + (1 - e) * A * np.expm1(B * x)
-    qin = np.maximum(0, (p["filling_pressure_mmhg"] - plv) / p["mitral_resistance_mmhg_s_per_ml"])
-    qout = np.maximum(0, (plv - pcs) / (p["aortic_resistance_mmhg_s_per_ml"] + p["zc_mmhg_s_per_ml"]))
-    pao = pcs + p["zc_mmhg_s_per_ml"] * qout
-    dpdv = e * ees + (1 - e) * A * B * np.exp(B * x)
-    dpdt = de * (ees * x - A * np.expm1(B * x)) + dpdv * (qin - qout)
+    return y, beats, change
 
-    imax = int(np.argmax(dpdt))
-    last = imax if imax > 0 else len(ts) - 1
-    ied = int(np.argmax(vs[:last + 1]))  # largest volume before peak dP/dt
-    edv, edp = vs[ied], plv[ied]
+
+def sample_grid(period, events):
+    """The 1 kHz grid of a beat with the left heart's valve events merged in."""
+    ts = list(np.arange(0.0, period - 1e-9, 1e-3)) + [period]
+    for t, i, _ in events:
+        if i < 2 and 0.0 < t < period and min(abs(t - s) for s in ts) > 1e-9:
+            ts.append(t)
+    return np.array(sorted(ts))
+
+
+def evaluate(segments, ts, n):
+    """Volumes and valve states at the times ts from the segments' dense output."""
+    vs, states = np.empty((len(ts), n)), []
+    k = 0
+    for j, t in enumerate(ts):
+        while k < len(segments) - 1 and t > segments[k][1]:
+            k += 1
+        a, b, f, state = segments[k]
+        vs[j] = f(min(max(t, a), b))[:n]
+        states.append(state)
+    return vs, states
+
+
+def measure(circ, start, end, integrals, segments, events):
+    p, period = circ.p, circ.period
+    ts = sample_grid(period, events)
+    vs, states = evaluate(segments, ts, circ.n)
+    ees, v0, A, B = circ.lv
+    plv, dpdt, pao = np.empty(len(ts)), np.empty(len(ts)), np.empty(len(ts))
+    for j, t in enumerate(ts):
+        P, (de, dpde, dpdv) = circ.pressures(t, vs[j])
+        q = circ.valve_flows(P, states[j])
+        plv[j] = P["lv"]
+        dpdt[j] = dpde * de + dpdv * (q[0] - q[1])
+        pao[j] = P["sa"] + p["zc_mmhg_s_per_ml"] * q[1]
+    v = vs[:, 0]
+
+    i_rise = int(np.argmax(dpdt))
+    upto = i_rise if i_rise > 0 else len(ts) - 1
+    i_ed = int(np.argmax(v[:upto + 1]))
+    edv, edp = v[i_ed], plv[i_ed]
     floor = max(1.0, 0.02 * (edv - v0))
-    ratio = np.where(x > floor, plv / np.where(x > floor, x, 1.0), -np.inf)
-    ies = int(np.argmax(ratio))
-    esv, esp = vs[ies], plv[ies]
-    sv = edv - float(np.min(vs))  # the volume ejected
+    elastance = np.full(len(ts), -np.inf)
+    ok = v - v0 > floor
+    elastance[ok] = plv[ok] / (v[ok] - v0)
+    i_es = int(np.argmax(elastance))
+    esv, esp = v[i_es], plv[i_es]
+    sv = edv - float(v.min())
     ea = esp / sv
-    hr = 60.0 / period
     r_total = p["resistance_mmhg_s_per_ml"] + p["zc_mmhg_s_per_ml"]
-    sw = 0.5 * np.sum(vs * np.roll(plv, -1) - np.roll(vs, -1) * plv)
-    xe = esv - v0
-    pe = 0.5 * esp * xe - (A * math.expm1(B * xe) / B - A * xe)
+
+    I = dict(zip(circ.integrals, integrals))
+    sw = I["work"]
+    x_es = esv - v0
+    pe = 0.5 * esp * x_es - (A * math.expm1(B * x_es) / B - A * x_es if x_es > 0 else 0.0)
     pva = sw + pe
-    mass = 1.05 * p["wall_volume_ml"]  # g
-    vo2_100g = 1.75e-5 * pva * 100 / mass + 0.031  # Khalafbeigui, Suga & Sagawa 1979, per 100 g
-    vo2 = vo2_100g * mass / 100
-    imin = int(np.argmin(dpdt))
-    win = []
-    for i in range(imin, len(ts)):
-        if not plv[i] > edp + 5 or plv[i] <= 0:
+    mass = 1.05 * p["wall_volume_ml"]
+    vo2_100g = 1.75e-5 * pva * 100.0 / mass + 0.031
+    vo2 = vo2_100g * mass / 100.0
+
+    i_fall = int(np.argmin(dpdt))
+    fit = []
+    for j in range(i_fall, len(ts)):
+        if not (plv[j] > edp + 5.0 and plv[j] > 0.0):
             break
-        win.append(i)
-    fit = stats.linregress(ts[win], np.log(plv[win]))
-    tau = -1000.0 / fit.slope
+        fit.append(j)
+    tau = math.nan
+    if len(fit) >= 3:
+        slope = stats.linregress(ts[fit], np.log(plv[fit])).slope
+        tau = -1000.0 / slope if slope < 0 else math.nan
 
-    def stress(pr, v):
-        wall = p["wall_volume_ml"]
-        r = (3 * v / (4 * math.pi)) ** (1 / 3)
-        h = (3 * (v + wall) / (4 * math.pi)) ** (1 / 3) - r
-        return 1.332 * pr * r / (2 * h * (1 + h / (2 * r)))
+    def wall_stress(pr, vol):
+        r = (3.0 * vol / (4.0 * math.pi)) ** (1.0 / 3.0)
+        h = (3.0 * (vol + p["wall_volume_ml"]) / (4.0 * math.pi)) ** (1.0 / 3.0) - r
+        return 1.332 * pr * r / (2.0 * h * (1.0 + h / (2.0 * r)))
 
-    return {
-        "edv_ml": edv, "esv_ml": esv, "sv_ml": sv, "ef_pct": 100 * sv / edv, "edp_mmhg": edp, "esp_mmhg": esp,
-        "ea_mmhg_per_ml": ea, "ees_mmhg_per_ml": ees, "ea_ees_ratio": ea / ees,
+    m = {
+        "edv_ml": edv, "esv_ml": esv, "sv_ml": sv, "ef_pct": 100.0 * sv / edv, "edp_mmhg": edp,
+        "esp_mmhg": esp, "ea_mmhg_per_ml": ea, "ees_mmhg_per_ml": ees, "ea_ees_ratio": ea / ees,
         "ea_hr_r_mmhg_per_ml": r_total / period,
         "ea_segers_mmhg_per_ml": -0.13 + 1.02 * r_total / period + 0.31 / p["compliance_ml_per_mmhg"],
-        "hr_bpm": hr, "co_l_per_min": sv * hr / 1000, "map_mmhg": integrate.trapezoid(pao, ts) / period,
-        "sbp_mmhg": float(np.max(pao)), "dbp_mmhg": float(np.min(pao)), "sw_mmhg_ml": sw, "pe_mmhg_ml": pe,
-        "pva_mmhg_ml": pva, "efficiency": sw / pva, "vo2_ml_per_beat": vo2,
-        "vo2_ml_per_beat_100g": vo2_100g, "mechanical_efficiency": sw * 1.333e-4 / (vo2 * 20),
-        "dpdt_max_mmhg_per_s": float(np.max(dpdt)), "dpdt_min_mmhg_per_s": float(np.min(dpdt)), "tau_ms": tau,
-        "ed_wall_stress_kdyn_cm2": stress(edp, edv), "es_wall_stress_kdyn_cm2": stress(esp, esv),
+        "hr_bpm": 60.0 / period, "co_l_per_min": sv * 60.0 / period / 1000.0,
+        "map_mmhg": I["pao"] / period, "sbp_mmhg": float(pao.max()), "dbp_mmhg": float(pao.min()),
+        "sw_mmhg_ml": sw, "pe_mmhg_ml": pe, "pva_mmhg_ml": pva, "efficiency": sw / pva,
+        "vo2_ml_per_beat": vo2, "vo2_ml_per_beat_100g": vo2_100g,
+        "mechanical_efficiency": sw * 1.333e-4 / (vo2 * 20.0),
+        "dpdt_max_mmhg_per_s": float(dpdt.max()), "dpdt_min_mmhg_per_s": float(dpdt.min()), "tau_ms": tau,
+        "ed_wall_stress_kdyn_cm2": wall_stress(edp, edv), "es_wall_stress_kdyn_cm2": wall_stress(esp, esv),
+        "lap_mean_mmhg": I["pla"] / period,
+        "atrial_filling_pct": math.nan, "cvp_mmhg": math.nan, "pap_mean_mmhg": math.nan, "rv_sv_ml": math.nan,
+    }
+    if circ.closed:
+        # The RV's extremes fall on its valve events (zero flow there), so
+        # those times join the grid for its stroke volume.
+        extra = np.array(sorted(t for t, i, _ in events if i >= 2))
+        rv = np.concatenate([vs[:, 4], evaluate(segments, extra, circ.n)[0][:, 4] if len(extra) else []])
+        m.update({"atrial_filling_pct": 100.0 * I["qin_atrial"] / I["qin"], "cvp_mmhg": I["pra"] / period,
+                  "pap_mean_mmhg": I["ppa"] / period, "rv_sv_ml": float(rv.max() - rv.min())})
+    return m
+
+
+def solve(doc, tol=1e-10):
+    """The steady state and metrics of the input document."""
+    circulation = doc.get("circulation")
+    if circulation is None:
+        raise SystemExit("reference: the input has no circulation (held or closed)")
+    p = doc["params"]
+    start_clock = time.perf_counter()
+    circ = Circuit(circulation, p)
+    start, beats, change = steady(circ, tol)
+    end, integrals, segments, events = circ.beat(start, keep=True)
+    beats += 1
+    drift = abs(float(np.sum(end) - np.sum(start))) / float(np.sum(start))
+    if drift > 1e-9:
+        raise SystemExit(f"reference: blood volume changed by {drift:.2g} (relative) over a beat")
+    metrics = measure(circ, start, end, integrals, segments, events)
+    elapsed = (time.perf_counter() - start_clock) * 1000.0
+    return {
+        "scenario": doc.get("scenario"), "circulation": circulation, "params": p,
+        "metrics": {k: (None if not math.isfinite(v) else float(v)) for k, v in metrics.items()},
+        "timing": {"solve_ms": elapsed, "beats": beats},
+        "steady": {"last_change": change, "volume_drift": drift,
+                   "start_ml": dict(zip(circ.names, map(float, start)))},
+        "generator": "testdata/reference/reference.py, SciPy " + scipy.__version__,
     }
 
 
 def main():
-    doc = json.load(sys.stdin)
-    p = doc["params"]
-    start = time.perf_counter()
-    model = Model(p)
-    a = p["edpvr_a_mmhg"]
-    y = np.array([p["v0_ml"] + math.log1p(p["filling_pressure_mmhg"] / a) / p["edpvr_b_per_ml"], 60.0])
-    beats = 0
-    for beats in range(1, 1001):
-        y1, _, _ = model.beat(y)
-        change = max(abs(y1[0] - y[0]) / max(abs(y[0]), 10), abs(y1[1] - y[1]) / max(abs(y[1]), 10))
-        y = y1
-        if change < 1e-10:
-            break
-    else:
-        raise SystemExit("reference: no steady state after 1000 beats")
-    _, segments, events = model.beat(y, keep=True)
-    beats += 1
-    metrics = measure(model, segments, events)
-    elapsed = (time.perf_counter() - start) * 1000
-    out = {"scenario": doc.get("scenario"), "params": p,
-           "metrics": {k: float(v) for k, v in metrics.items()},
-           "timing": {"solve_ms": elapsed, "beats": beats},
-           "generator": "testdata/reference/reference.py, SciPy " + __import__("scipy").__version__}
-    json.dump(out, sys.stdout, indent=2)
+    json.dump(solve(json.load(sys.stdin)), sys.stdout, indent=2)
     sys.stdout.write("\n")
 
 
