@@ -1,6 +1,9 @@
 package cli
 
 import (
+	"fmt"
+
+	"pvcouple/internal/safefile"
 	"pvcouple/model/analysis"
 )
 
@@ -36,7 +39,12 @@ func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
 	if !(r.smoothMS >= 2 && r.smoothMS <= 100) {
 		return nil, usagef("--smooth-ms %g: allowed 2 to 100 ms", r.smoothMS)
 	}
-	rec, err := analysis.LoadCSV(path, r.read)
+	f, err := safefile.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("cannot read recording: %w", err)
+	}
+	defer f.Close()
+	rec, err := analysis.ReadCSV(f, path, r.read)
 	if err != nil {
 		return nil, err
 	}

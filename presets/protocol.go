@@ -2,6 +2,7 @@ package presets
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"path/filepath"
 	"strings"
@@ -128,6 +129,16 @@ func LoadProtocol(path string) (*Protocol, error) {
 		return nil, err
 	}
 	return ParseProtocol(data, path)
+}
+
+// ReadProtocol reads a protocol from r (at most MaxFileSize bytes) and
+// strictly checks it; name labels errors and names a protocol without one.
+func ReadProtocol(r io.Reader, name string) (*Protocol, error) {
+	data, err := readAllCapped(r, name, "protocol")
+	if err != nil {
+		return nil, err
+	}
+	return ParseProtocol(data, name)
 }
 
 // protocolKeys are the keys of a protocol file, in the order of the schema.

@@ -68,6 +68,16 @@ func LoadScenario(path string) (*Scenario, error) {
 	return ParseScenario(data, path)
 }
 
+// ReadScenario reads a scenario from r (at most MaxFileSize bytes) and
+// strictly checks it; name labels errors.
+func ReadScenario(r io.Reader, name string) (*Scenario, error) {
+	data, err := readAllCapped(r, name, "scenario")
+	if err != nil {
+		return nil, err
+	}
+	return ParseScenario(data, name)
+}
+
 // ParseScenario strictly decodes a scenario; name labels errors (a file name).
 func ParseScenario(data []byte, name string) (*Scenario, error) {
 	root, err := decodeSingle(data, name)

@@ -3,11 +3,12 @@ package presets
 import (
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
+
+	"pvcouple/internal/safefile"
 )
 
 // MaxFileSize is the largest scenario or protocol file read, bytes. The
@@ -16,19 +17,25 @@ import (
 const MaxFileSize = 1 << 20
 
 // readCapped reads a file of at most MaxFileSize bytes; what names the kind of
-// file in errors.
+// file in errors. A path that is not a regular file (a named pipe, a device,
+// a folder) is refused before it is opened.
 func readCapped(path, what string) ([]byte, error) {
-	f, err := os.Open(path)
+	f, err := safefile.Open(path)
 	if err != nil {
 		return nil, fmt.Errorf("cannot read %s: %w", what, err)
 	}
 	defer f.Close()
-	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	return readAllCapped(f, path, what)
+}
+
+// readAllCapped reads r to its end, refusing more than MaxFileSize bytes.
+func readAllCapped(r io.Reader, name, what string) ([]byte, error) {
+	data, err := io.ReadAll(io.LimitReader(r, MaxFileSize+1))
 	if err != nil {
-		return nil, fmt.Errorf("cannot read %s: %w", what, err)
+		return nil, fmt.Errorf("cannot read %s %s: %w", what, name, err)
 	}
 	if len(data) > MaxFileSize {
-		return nil, &FileError{File: path, Msg: fmt.Sprintf("larger than %d KiB: not a %s file", MaxFileSize>>10, what)}
+		return nil, &FileError{File: name, Msg: fmt.Sprintf("larger than %d KiB: not a %s file", MaxFileSize>>10, what)}
 	}
 	return data, nil
 }
