@@ -80,10 +80,31 @@ func numberNode(x float64) *yaml.Node {
 	return &yaml.Node{Kind: yaml.ScalarNode, Tag: tag, Value: v}
 }
 
+// checkText refuses a name, description or notes that a load would refuse.
+func (s *Scenario) checkText() error {
+	for _, f := range []struct{ key, val string }{{"name", s.Name}, {"description", s.Description}, {"notes", s.Notes}} {
+		if err := checkText(f.key, f.val); err != nil {
+			return fmt.Errorf("cannot save scenario: its %s %s: %w", f.key, quoteShort(f.val), err)
+		}
+	}
+	return nil
+}
+
+// quoteShort quotes s, escaped, cut to 60 characters.
+func quoteShort(s string) string {
+	if r := []rune(s); len(r) > 60 {
+		return strconv.Quote(string(r[:60])) + "…"
+	}
+	return strconv.Quote(s)
+}
+
 // SaveScenario writes s to path atomically (a temporary file renamed into
 // place, so a failure leaves any old file intact). It refuses to replace an
 // existing file unless force is set, returning an error wrapping ErrExists.
 func SaveScenario(path string, s *Scenario, force bool) error {
+	if err := s.checkText(); err != nil {
+		return err
+	}
 	data, err := s.Marshal()
 	if err != nil {
 		return fmt.Errorf("cannot encode scenario: %w", err)

@@ -11,6 +11,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
@@ -44,18 +45,21 @@ type FileError struct {
 	Msg  string
 }
 
+// Error names the place and says what is wrong, on one line; whatever came
+// from the file (a key, a value) is escaped so that it cannot act on a
+// terminal.
 func (e *FileError) Error() string {
 	var b strings.Builder
-	b.WriteString(e.File)
+	b.WriteString(safetext.Line(e.File))
 	if e.Line > 0 {
 		fmt.Fprintf(&b, ":%d", e.Line)
 	}
 	b.WriteString(": ")
 	if e.Key != "" {
-		b.WriteString(e.Key)
+		b.WriteString(safetext.Line(e.Key))
 		b.WriteString(": ")
 	}
-	b.WriteString(e.Msg)
+	b.WriteString(safetext.Line(e.Msg))
 	return b.String()
 }
 
@@ -112,6 +116,9 @@ func ParseScenario(data []byte, name string) (*Scenario, error) {
 		case "name", "description", "notes", "base":
 			if v.Kind != yaml.ScalarNode || v.Tag != "!!str" && v.Tag != "!!null" {
 				return nil, fe(v, k.Value, "must be text")
+			}
+			if err := checkText(k.Value, v.Value); err != nil {
+				return nil, fe(v, k.Value, "%v", err)
 			}
 			switch k.Value {
 			case "name":

@@ -1,6 +1,7 @@
 package presets
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"strconv"
@@ -9,6 +10,7 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 )
 
 // MaxFileSize is the largest scenario or protocol file read, bytes. The
@@ -38,6 +40,24 @@ func readAllCapped(r io.Reader, name, what string) ([]byte, error) {
 		return nil, &FileError{File: name, Msg: fmt.Sprintf("larger than %d KiB: not a %s file", MaxFileSize>>10, what)}
 	}
 	return data, nil
+}
+
+// checkText refuses control characters in the text field key: notes may
+// span lines (newlines and tabs are allowed there); every other text field
+// is one line. A name or label is printed on terminals and in tables, where
+// an escape sequence would act instead of being read.
+func checkText(key, s string) error {
+	check := safetext.CheckLine
+	if key == "notes" {
+		check = safetext.CheckText
+	}
+	if err := check(s); err != nil {
+		if key != "notes" && strings.ContainsAny(s, "\n\r") {
+			return errors.New("must be one line")
+		}
+		return err
+	}
+	return nil
 }
 
 // rejectAliases refuses YAML aliases (*name) and merge keys anywhere in the
