@@ -108,4 +108,3 @@ func TestTemporaryFileBesideTarget(t *testing.T) {
 		t.Errorf("Discard left %v", n)
 	}
 }
-
