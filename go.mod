@@ -12,7 +12,6 @@ require (
 	github.com/charmbracelet/x/exp/golden v0.0.0-20241011142426-46044092ad91
 	github.com/charmbracelet/x/exp/teatest v0.0.0-20251215102626-e0db08df7383
 	github.com/creack/pty v1.1.24
-	github.com/google/renameio/v2 v2.0.2
 	github.com/muesli/termenv v0.16.0
 	go.yaml.in/yaml/v3 v3.0.6
 	golang.org/x/image v0.30.0

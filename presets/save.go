@@ -9,14 +9,16 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/google/renameio/v2"
 	"go.yaml.in/yaml/v3"
 
+	"pvcouple/internal/atomicfile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
-// ErrExists is returned by SaveScenario when the file exists and force is false.
-var ErrExists = errors.New("file exists")
+// ErrExists is returned by SaveScenario when the file exists and force is
+// false (also when it appeared while the scenario was written).
+var ErrExists = atomicfile.ErrExists
 
 // Marshal returns the scenario as YAML in schema version 1, every parameter
 // written with the shortest decimal that reads back exactly, in the order of
@@ -84,18 +86,10 @@ func numberNode(x float64) *yaml.Node {
 func (s *Scenario) checkText() error {
 	for _, f := range []struct{ key, val string }{{"name", s.Name}, {"description", s.Description}, {"notes", s.Notes}} {
 		if err := checkText(f.key, f.val); err != nil {
-			return fmt.Errorf("cannot save scenario: its %s %s: %w", f.key, quoteShort(f.val), err)
+			return fmt.Errorf("cannot save scenario: its %s %s: %w", f.key, QuoteShort(f.val), err)
 		}
 	}
 	return nil
-}
-
-// quoteShort quotes s, escaped, cut to 60 characters.
-func quoteShort(s string) string {
-	if r := []rune(s); len(r) > 60 {
-		return strconv.Quote(string(r[:60])) + "…"
-	}
-	return strconv.Quote(s)
 }
 
 // SaveScenario writes s to path atomically (a temporary file renamed into
@@ -111,12 +105,15 @@ func SaveScenario(path string, s *Scenario, force bool) error {
 	}
 	if !force {
 		if _, err := os.Lstat(path); err == nil {
-			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", path, ErrExists)
+			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", safetext.Line(path), ErrExists)
 		} else if !errors.Is(err, fs.ErrNotExist) {
 			return fmt.Errorf("cannot save scenario: %w", err)
 		}
 	}
-	if err := renameio.WriteFile(path, data, 0o644); err != nil {
+	if err := atomicfile.WriteFile(path, data, force); err != nil {
+		if errors.Is(err, ErrExists) {
+			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", safetext.Line(path), ErrExists)
+		}
 		return fmt.Errorf("cannot save scenario: %w", err)
 	}
 	return nil

@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strconv"
 	"strings"
 
@@ -254,11 +253,7 @@ func scalarNumber(v *yaml.Node) (float64, error) {
 	case v.Kind == yaml.SequenceNode:
 		return 0, errors.New("a list is not a number")
 	case v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float"):
-		return 0, fmt.Errorf("%q is not a number", v.Value)
+		return 0, fmt.Errorf("%s is not a number", QuoteShort(v.Value))
 	}
-	x, err := strconv.ParseFloat(strings.ReplaceAll(v.Value, "_", ""), 64)
-	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, fmt.Errorf("%q is not a finite number", v.Value)
-	}
-	return x, nil
+	return ParseNumber(v.Value)
 }

@@ -24,6 +24,21 @@ import (
 // destination exists and replacing it was not asked for.
 var ErrExists = errors.New("file exists")
 
+// WriteError is a failure to write Path; Err is the cause, without the name
+// of the temporary file.
+type WriteError struct {
+	Path string
+	Err  error
+}
+
+func (e *WriteError) Error() string { return "cannot write " + e.Path + ": " + e.Err.Error() }
+
+// Unwrap returns the cause.
+func (e *WriteError) Unwrap() error { return e.Err }
+
+// writeError wraps err, stripped of the temporary file's name, for path.
+func writeError(path string, err error) error { return &WriteError{Path: path, Err: bare(err)} }
+
 // Perm is the permission of the files written: read and write for the
 // owner, read for the rest (before the umask of the folder's ACLs, if any).
 const Perm = 0o644
@@ -47,7 +62,7 @@ func Create(path string) (*File, error) {
 	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
 	if err != nil {
 		untrack("")
-		return nil, fmt.Errorf("cannot write %s: %w", path, bare(err))
+		return nil, writeError(path, err)
 	}
 	add(f.Name())
 	return &File{f: f, path: path, tmp: f.Name()}, nil
@@ -57,7 +72,7 @@ func Create(path string) (*File, error) {
 func (f *File) Write(p []byte) (int, error) {
 	n, err := f.f.Write(p)
 	if err != nil {
-		err = fmt.Errorf("cannot write %s: %w", f.path, bare(err))
+		err = writeError(f.path, err)
 	}
 	return n, err
 }
@@ -78,7 +93,7 @@ func (f *File) Commit(replace bool) error {
 		err = cerr
 	}
 	if err != nil {
-		return fmt.Errorf("cannot write %s: %w", f.path, bare(err))
+		return writeError(f.path, err)
 	}
 	if replace {
 		err = os.Rename(f.tmp, f.path)
@@ -89,7 +104,7 @@ func (f *File) Commit(replace bool) error {
 		if errors.Is(err, fs.ErrExist) {
 			return fmt.Errorf("%s: %w", f.path, ErrExists)
 		}
-		return fmt.Errorf("cannot write %s: %w", f.path, bare(err))
+		return writeError(f.path, err)
 	}
 	syncDir(filepath.Dir(f.path))
 	return nil

@@ -27,7 +27,9 @@ func JSON(data []byte) []byte {
 	b.Grow(len(data) + 16)
 	for i := 0; i < len(data); {
 		r, n := utf8.DecodeRune(data[i:])
-		if r != utf8.RuneError && Unsafe(r) {
+		// C0 controls appear only as JSON's white space (inside strings
+		// encoding/json escapes them).
+		if r >= 0x20 && r != utf8.RuneError && Unsafe(r) {
 			fmt.Fprintf(&b, `\u%04x`, r)
 		} else {
 			b.Write(data[i : i+n])
