@@ -155,3 +155,47 @@ func TestLoadShowsProgress(t *testing.T) {
 		t.Errorf("a stale tick changed the status: %q", m.status)
 	}
 }
+
+// A file named with an escape sequence (a window-title OSC, a screen clear)
+// is shown escaped everywhere: the status line, the play view, the overlay
+// legend. With colour off, the frame holds no ESC or BEL at all.
+func TestHostileFileNamesShowEscaped(t *testing.T) {
+	dir := t.TempDir()
+	hostile := "x\x1b]0;owned\x07\x1b[2J"
+	shown := `x\x1b]0;owned\x07\x1b[2J`
+	scen := filepath.Join(dir, hostile+".yaml")
+	if err := os.WriteFile(scen, []byte("version: 1\nname: study\nbase: normal\nparams: {}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	proto := filepath.Join(dir, hostile+"-proto.yaml")
+	if err := os.WriteFile(proto, []byte("version: 1\nsteps:\n  - {label: rest, hold: 3}\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rec := filepath.Join(dir, hostile+".csv")
+	data, err := os.ReadFile(occlusionCSV)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(rec, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	m := sized(t, "normal")
+	check := func(what, want string) {
+		t.Helper()
+		screen := m.View()
+		if strings.ContainsAny(screen, "\x1b\x07") {
+			t.Errorf("%s: the frame holds ESC or BEL", what)
+		}
+		if !strings.Contains(strings.ReplaceAll(screen, "\n   ", " "), want) {
+			t.Errorf("%s: the frame lacks %q:\n%s", what, want, screen)
+		}
+	}
+	// The path prompt drops control characters typed or pasted; a path can
+	// still hold them (a name completed or remembered), so load it directly.
+	runCmd(m, m.open(scen))
+	check("open", "Opened "+filepath.Join(dir, shown)+".yaml (study)")
+	runCmd(m, m.openRecording(rec))
+	check("overlay", shown+".csv")
+	runCmd(m, m.playFile(proto))
+	check("play", shown+"-proto")
+}

@@ -9,6 +9,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -144,7 +145,7 @@ func (m *Model) show(sc *presets.Scenario, origin string, cur, base *model.Stead
 	if m.st.shown != nil {
 		m.hist.push(m.snapshot())
 	}
-	m.st = state{name: sc.Name, origin: origin, target: sc.Params, shown: cur, base: base}
+	m.st = state{name: safetext.Line(sc.Name), origin: origin, target: sc.Params, shown: cur, base: base}
 	m.gen++
 	m.floor = m.gen
 	m.pending = ""
@@ -158,8 +159,9 @@ func (m *Model) snapshot() snapshot {
 	return snapshot{name: m.st.name, origin: m.st.origin, target: m.st.target, base: m.st.base}
 }
 
-// setStatus says what just happened.
-func (m *Model) setStatus(s string) { m.status, m.statusErr = s, false }
+// setStatus says what just happened. Whatever came from a file or a path in
+// it is escaped (it may hold control characters).
+func (m *Model) setStatus(s string) { m.status, m.statusErr = safetext.Line(s), false }
 
 // setError says what went wrong; the screen is otherwise unchanged.
-func (m *Model) setError(s string) { m.status, m.statusErr = s, true }
+func (m *Model) setError(s string) { m.status, m.statusErr = safetext.Line(s), true }

@@ -9,6 +9,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 )
@@ -33,7 +34,7 @@ func newRecording(path string, a *analysis.Analysis) (*recording, error) {
 	if len(ov.Loops) == 0 {
 		return nil, fmt.Errorf("%s: no whole beat to overlay", path)
 	}
-	r := &recording{path: path, name: filepath.Base(path), ov: ov, kept: len(ov.Loops)}
+	r := &recording{path: path, name: safetext.Line(filepath.Base(path)), ov: ov, kept: len(ov.Loops)}
 	if i := ov.Representative; i >= 0 {
 		for _, b := range a.Beats {
 			if b.Index == ov.Loops[i].Beat && b.Measured {

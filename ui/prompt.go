@@ -14,6 +14,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -128,8 +129,8 @@ func (m *Model) confirmKey(msg tea.KeyMsg) tea.Cmd {
 func (m *Model) save(path string, force bool) {
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
-		Name:        strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)),
-		Description: "Saved from pvcouple explore, started from " + m.st.origin,
+		Name:        safetext.Line(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))),
+		Description: "Saved from pvcouple explore, started from " + safetext.Line(m.st.origin),
 		Params:      m.st.target,
 	}
 	if m.st.base != nil {
