@@ -44,7 +44,6 @@ type loading struct {
 	path   string
 	prog   *safefile.Progress
 	cancel context.CancelFunc
-	start  time.Time
 }
 
 // loadedMsg is the result of load id.
@@ -68,7 +67,7 @@ func (m *Model) startLoad(l fileLoad, path string) tea.Cmd {
 	m.stopLoad()
 	ctx, cancel := context.WithCancel(context.Background())
 	m.loads++
-	ld := &loading{id: m.loads, load: l, path: path, prog: &safefile.Progress{}, cancel: cancel, start: time.Now()}
+	ld := &loading{id: m.loads, load: l, path: path, prog: &safefile.Progress{}, cancel: cancel}
 	m.loading = ld
 	m.setStatus(m.loadStatus(ld))
 	open := m.opener
