@@ -3,6 +3,7 @@ module pvcouple
 go 1.26.8
 
 require (
+	early.invalid/quietterm v0.0.0
 	github.com/NimbleMarkets/ntcharts v0.4.0
 	github.com/charmbracelet/bubbles v1.0.0
 	github.com/charmbracelet/bubbletea v1.3.10
@@ -10,7 +11,7 @@ require (
 	github.com/charmbracelet/x/ansi v0.11.6
 	github.com/charmbracelet/x/exp/golden v0.0.0-20241011142426-46044092ad91
 	github.com/charmbracelet/x/exp/teatest v0.0.0-20251215102626-e0db08df7383
-	github.com/google/renameio/v2 v2.0.2
+	github.com/creack/pty v1.1.24
 	github.com/muesli/termenv v0.16.0
 	go.yaml.in/yaml/v3 v3.0.6
 	golang.org/x/image v0.30.0
@@ -49,3 +50,6 @@ require (
 	golang.org/x/text v0.28.0 // indirect
 	golang.org/x/tools v0.36.0 // indirect
 )
+
+// A module of our own, in the repository; see quietterm/quietterm.go.
+replace early.invalid/quietterm => ./quietterm

@@ -8,6 +8,8 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -69,6 +71,12 @@ type Model struct {
 	// Recording overlay and background work (overlay.go, follow.go).
 	lastRecPath string // the recording last opened
 	closed      bool   // Close was called: no more background work
+
+	// Files read off the update loop (load.go).
+	opener   safefile.Opener      // opens the files read; nil: safefile.Open
+	loading  *loading             // the load in progress, nil when none
+	loads    int                  // loads started; the id of the latest
+	loadTick func(id int) tea.Cmd // the progress tick (defaultLoadTick)
 }
 
 // New returns the explorer on scenario sc, solved to steady state (the
@@ -83,6 +91,7 @@ func New(sc *presets.Scenario, origin string, styles *Styles) (*Model, error) {
 		views:      newViews(styles),
 		readouts:   newReadoutPanel(styles),
 		levers:     newLeverPanel(styles),
+		loadTick:   defaultLoadTick,
 	}
 	for _, v := range m.views {
 		if p, ok := v.(*playView); ok {
@@ -108,27 +117,41 @@ func (m *Model) Init() tea.Cmd { return nil }
 // load solves scenario sc and its baseline and, when both settle, puts them
 // on screen as the levers and the baseline; on failure nothing changes.
 func (m *Model) load(sc *presets.Scenario, origin string) error {
-	cur, err := m.syncSolver.SteadyState(sc.Params, nil)
+	cur, base, err := solveScenario(m.syncSolver, sc, origin)
 	if err != nil {
-		return fmt.Errorf("%s: %w", origin, err)
+		return err
 	}
-	base := cur
+	m.show(sc, origin, cur, base)
+	return nil
+}
+
+// solveScenario solves scenario sc and its baseline on s.
+func solveScenario(s *model.Solver, sc *presets.Scenario, origin string) (cur, base *model.Steady, err error) {
+	cur, err = s.SteadyState(sc.Params, nil)
+	if err != nil {
+		return nil, nil, fmt.Errorf("%s: %w", origin, err)
+	}
+	base = cur
 	if sc.Baseline != nil && *sc.Baseline != sc.Params {
-		if base, err = m.syncSolver.SteadyState(*sc.Baseline, nil); err != nil {
-			return fmt.Errorf("%s: baseline: %w", origin, err)
+		if base, err = s.SteadyState(*sc.Baseline, nil); err != nil {
+			return nil, nil, fmt.Errorf("%s: baseline: %w", origin, err)
 		}
 	}
+	return cur, base, nil
+}
+
+// show puts a solved scenario on screen as the levers and the baseline.
+func (m *Model) show(sc *presets.Scenario, origin string, cur, base *model.Steady) {
 	if m.st.shown != nil {
 		m.hist.push(m.snapshot())
 	}
-	m.st = state{name: sc.Name, origin: origin, target: sc.Params, shown: cur, base: base}
+	m.st = state{name: safetext.Line(sc.Name), origin: origin, target: sc.Params, shown: cur, base: base}
 	m.gen++
 	m.floor = m.gen
 	m.pending = ""
 	for _, v := range m.views {
 		v.Refit()
 	}
-	return nil
 }
 
 // snapshot is the state undo returns to.
@@ -136,8 +159,9 @@ func (m *Model) snapshot() snapshot {
 	return snapshot{name: m.st.name, origin: m.st.origin, target: m.st.target, base: m.st.base}
 }
 
-// setStatus says what just happened.
-func (m *Model) setStatus(s string) { m.status, m.statusErr = s, false }
+// setStatus says what just happened. Whatever came from a file or a path in
+// it is escaped (it may hold control characters).
+func (m *Model) setStatus(s string) { m.status, m.statusErr = safetext.Line(s), false }
 
 // setError says what went wrong; the screen is otherwise unchanged.
-func (m *Model) setError(s string) { m.status, m.statusErr = s, true }
+func (m *Model) setError(s string) { m.status, m.statusErr = safetext.Line(s), true }

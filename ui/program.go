@@ -4,6 +4,10 @@ import (
 	"fmt"
 	"io"
 
+	// Declares the background dark before Bubble Tea's init can ask the
+	// terminal (see the package's comment).
+	_ "early.invalid/quietterm"
+
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/muesli/termenv"

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"os"
@@ -12,6 +13,9 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
+	"pvcouple/model"
 	"pvcouple/presets"
 )
 
@@ -93,11 +97,11 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 		case promptSave:
 			m.save(path, false)
 		case promptOpen:
-			m.open(path)
+			return m.open(path)
 		case promptProtocol:
 			return m.playFile(path)
 		case promptRecording:
-			m.openRecording(path)
+			return m.openRecording(path)
 		}
 		return nil
 	}
@@ -125,8 +129,8 @@ func (m *Model) confirmKey(msg tea.KeyMsg) tea.Cmd {
 func (m *Model) save(path string, force bool) {
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
-		Name:        strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)),
-		Description: "Saved from pvcouple explore, started from " + m.st.origin,
+		Name:        safetext.Line(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))),
+		Description: "Saved from pvcouple explore, started from " + safetext.Line(m.st.origin),
 		Params:      m.st.target,
 	}
 	if m.st.base != nil {
@@ -151,20 +155,39 @@ func (m *Model) save(path string, force bool) {
 	}
 }
 
-// open loads a scenario file; a file that fails to load or solve changes
-// nothing on screen.
-func (m *Model) open(path string) {
-	sc, err := presets.LoadScenario(path)
-	if err == nil {
-		err = m.load(sc, path)
-	}
-	if err != nil {
-		m.setError("Not opened: " + err.Error())
-		return
-	}
-	m.lastPath = path
-	m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, sc.Name))
+// scenarioLoad reads a scenario file and solves it and its baseline off the
+// update loop; a file that fails to load or solve changes nothing on screen.
+var scenarioLoad = fileLoad{
+	what: "scenario",
+	then: "Solving",
+	read: func(_ context.Context, f *safefile.File, path string) (any, error) {
+		sc, err := presets.ReadScenario(f, path)
+		if err != nil {
+			return nil, err
+		}
+		cur, base, err := solveScenario(model.NewSolver(), sc, path)
+		if err != nil {
+			return nil, err
+		}
+		return &openedScenario{sc: sc, cur: cur, base: base}, nil
+	},
+	apply: func(m *Model, path string, res any) tea.Cmd {
+		o := res.(*openedScenario)
+		m.show(o.sc, path, o.cur, o.base)
+		m.lastPath = path
+		m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, o.sc.Name))
+		return nil
+	},
 }
+
+// openedScenario is a scenario read and solved.
+type openedScenario struct {
+	sc        *presets.Scenario
+	cur, base *model.Steady
+}
+
+// open reads a scenario file in the background.
+func (m *Model) open(path string) tea.Cmd { return m.startLoad(scenarioLoad, path) }
 
 // expandHome replaces a leading ~/ by the home directory.
 func expandHome(p string) string {
