@@ -44,13 +44,17 @@ func (s *Scenario) BaselineOrParams() model.Params {
 
 // SetCirculation moves the scenario (and its baseline) to circulation c. Into
 // a closed one, a scenario whose file did not give a stressed volume has its
-// volume calibrated to its filling pressure, as when it was loaded.
+// volume calibrated to its filling pressure, as when it was loaded; into a
+// held one, the stressed volume is dropped.
 func (s *Scenario) SetCirculation(c model.Circulation) error {
 	set := func(p *model.Params) error {
 		if p.Circulation == c {
 			return nil
 		}
 		p.Circulation = c
+		if c == model.Held {
+			p.StressedVolume = 0 // a held circulation has none
+		}
 		if c != model.Closed || s.VolumeGiven && p.StressedVolume > 0 {
 			return p.Validate()
 		}
