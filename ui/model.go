@@ -8,6 +8,7 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/pool"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -42,7 +43,9 @@ type Model struct {
 
 	solver     *model.Solver // the worker's: used by one solve at a time
 	syncSolver *model.Solver // the UI goroutine's, for loading scenarios
-	inflight   bool          // a solve is running
+	tenant     *pool.Tenant  // this explorer's share of the machine (solve.go)
+	want       wanted        // the setting the next solve is to be of
+	inflight   bool          // a solve is running or waiting for its turn
 	gen        int           // generation of the levers' setting
 	floor      int           // results of generations below this are stale
 	pending    string        // status of the nudge awaiting its solve
@@ -71,22 +74,42 @@ type Model struct {
 	closed      bool   // Close was called: no more background work
 }
 
+// Options are what an explorer shares with others in the same process.
+type Options struct {
+	// Pool is the machine's solve capacity, shared with the other
+	// explorers of the process; nil means pool.Default().
+	Pool *pool.Pool
+}
+
 // New returns the explorer on scenario sc, solved to steady state (the
 // baseline is the scenario's, or its parameters). origin says where the
 // scenario came from, e.g. "preset normal" or a file name.
 func New(sc *presets.Scenario, origin string, styles *Styles) (*Model, error) {
+	return NewWithOptions(sc, origin, styles, Options{})
+}
+
+// NewWithOptions is New with options: a lab server gives each session's
+// explorer the server's pool.
+func NewWithOptions(sc *presets.Scenario, origin string, styles *Styles, opt Options) (*Model, error) {
+	if opt.Pool == nil {
+		opt.Pool = pool.Default()
+	}
 	m := &Model{
 		keys:       DefaultKeyMap(),
 		styles:     styles,
 		solver:     model.NewSolver(),
 		syncSolver: model.NewSolver(),
+		tenant:     opt.Pool.Tenant(),
 		views:      newViews(styles),
 		readouts:   newReadoutPanel(styles),
 		levers:     newLeverPanel(styles),
 	}
 	for _, v := range m.views {
-		if p, ok := v.(*playView); ok {
-			m.play = p
+		switch v := v.(type) {
+		case *playView:
+			m.play = v
+		case *mapView:
+			v.gate = m.tenant.Gate(pool.Background)
 		}
 	}
 	m.after = func(d time.Duration, msg tea.Msg) tea.Cmd {
@@ -108,15 +131,20 @@ func (m *Model) Init() tea.Cmd { return nil }
 // load solves scenario sc and its baseline and, when both settle, puts them
 // on screen as the levers and the baseline; on failure nothing changes.
 func (m *Model) load(sc *presets.Scenario, origin string) error {
-	cur, err := m.syncSolver.SteadyState(sc.Params, nil)
+	var cur, base *model.Steady
+	var err, baseErr error
+	m.compute(func() {
+		cur, err = m.syncSolver.SteadyState(sc.Params, nil)
+		base = cur
+		if err == nil && sc.Baseline != nil && *sc.Baseline != sc.Params {
+			base, baseErr = m.syncSolver.SteadyState(*sc.Baseline, nil)
+		}
+	})
 	if err != nil {
 		return fmt.Errorf("%s: %w", origin, err)
 	}
-	base := cur
-	if sc.Baseline != nil && *sc.Baseline != sc.Params {
-		if base, err = m.syncSolver.SteadyState(*sc.Baseline, nil); err != nil {
-			return fmt.Errorf("%s: baseline: %w", origin, err)
-		}
+	if baseErr != nil {
+		return fmt.Errorf("%s: baseline: %w", origin, baseErr)
 	}
 	if m.st.shown != nil {
 		m.hist.push(m.snapshot())
@@ -125,6 +153,7 @@ func (m *Model) load(sc *presets.Scenario, origin string) error {
 	m.gen++
 	m.floor = m.gen
 	m.pending = ""
+	m.want.drop()
 	for _, v := range m.views {
 		v.Refit()
 	}

@@ -205,6 +205,7 @@ func (m *Model) revert() {
 	m.st.target, m.st.shown = m.st.base.Params, m.st.base
 	m.gen++
 	m.floor, m.pending = m.gen, ""
+	m.want.drop()
 	m.setStatus("Back to the baseline.")
 }
 
