@@ -23,6 +23,7 @@ const (
 	modePrompt                // a file path prompt (see promptKind)
 	modeConfirm               // overwrite an existing file?
 	modeProtocols             // the protocol picker
+	modeFiles                 // a lab server's files to open (filepicker.go)
 )
 
 // Model is the explorer's root Bubble Tea model.
@@ -60,6 +61,9 @@ type Model struct {
 	prompt    textinput.Model
 	promptFor promptKind // what the path prompt is for
 	lastPath  string     // the scenario path last saved or opened
+	folders   Folders    // a lab server's files, or nil for paths (filepicker.go)
+	fileKind  FileKind   // what the file list is for
+	files     []File     // the file list, as in picker
 	confirm   string     // the path to overwrite when confirmed
 
 	play             *playView // the protocol view, also in views
@@ -79,6 +83,10 @@ type Options struct {
 	// Pool is the machine's solve capacity, shared with the other
 	// explorers of the process; nil means pool.Default().
 	Pool *pool.Pool
+	// Folders, if not nil, are the only files the explorer may open and
+	// save, picked from lists (a lab server's session); nil means paths
+	// typed at a prompt (a local terminal).
+	Folders Folders
 }
 
 // New returns the explorer on scenario sc, solved to steady state (the
@@ -100,6 +108,7 @@ func NewWithOptions(sc *presets.Scenario, origin string, styles *Styles, opt Opt
 		solver:     model.NewSolver(),
 		syncSolver: model.NewSolver(),
 		tenant:     opt.Pool.Tenant(),
+		folders:    opt.Folders,
 		views:      newViews(styles),
 		readouts:   newReadoutPanel(styles),
 		levers:     newLeverPanel(styles),

@@ -45,6 +45,12 @@ func newRecording(path string, a *analysis.Analysis) (*recording, error) {
 // line and the column at fault.
 func (m *Model) openRecording(path string) {
 	a, err := analysis.Open(path, analysis.ReadOptions{}, analysis.Options{})
+	m.overlaid(path, a, err)
+}
+
+// overlaid overlays a recording read and analysed from the file shown as
+// path, or says why it was not read.
+func (m *Model) overlaid(path string, a *analysis.Analysis, err error) {
 	var rec *recording
 	if err == nil {
 		rec, err = newRecording(path, a)

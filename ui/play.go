@@ -50,6 +50,12 @@ func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
 // playFile plays the protocol file at path.
 func (m *Model) playFile(path string) tea.Cmd {
 	pr, err := presets.LoadProtocol(path)
+	return m.playLoaded(path, pr, err)
+}
+
+// playLoaded plays a protocol read from the file shown as path, or says why
+// it was not read.
+func (m *Model) playLoaded(path string, pr *presets.Protocol, err error) tea.Cmd {
 	if err != nil {
 		m.setError(err.Error())
 		return nil

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path"
 	"path/filepath"
 	"strings"
 
@@ -46,6 +47,10 @@ var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens",
 
 // openPrompt asks for a path to save to, open from, play or overlay.
 func (m *Model) openPrompt(kind promptKind) tea.Cmd {
+	if m.folders != nil && kind != promptSave {
+		m.openFiles(promptFiles[kind]) // a list of the session's files instead
+		return nil
+	}
 	m.promptFor = kind
 	m.prompt.Reset()
 	switch kind {
@@ -54,6 +59,10 @@ func (m *Model) openPrompt(kind promptKind) tea.Cmd {
 		v := m.lastPath
 		if v == "" {
 			v = m.st.name + ".yaml"
+		}
+		if m.folders != nil {
+			m.prompt.Prompt = "Save scenario in your folder as: "
+			v = path.Base(v)
 		}
 		m.prompt.SetValue(v)
 	case promptOpen:
@@ -84,7 +93,10 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 	case key.Matches(msg, m.keys.Confirm):
 		m.mode = modeMain
 		m.prompt.Blur()
-		path := expandHome(strings.TrimSpace(m.prompt.Value()))
+		path := strings.TrimSpace(m.prompt.Value())
+		if m.folders == nil {
+			path = expandHome(path)
+		}
 		if path == "" {
 			m.setError("No path given: nothing saved or opened.")
 			return nil
@@ -120,12 +132,27 @@ func (m *Model) confirmKey(msg tea.KeyMsg) tea.Cmd {
 	return nil
 }
 
-// save writes the levers and the baseline to path as a scenario. An
-// existing file is replaced only after the user confirms.
+// save writes the levers and the baseline to path as a scenario (in a lab
+// server's session, to that name in the fellow's folder). An existing file
+// is replaced only after the user confirms.
 func (m *Model) save(path string, force bool) {
+	if m.folders != nil {
+		m.saveInFolder(path, force)
+		return
+	}
+	sc := m.toSave(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)))
+	if dir := filepath.Dir(path); !isDir(dir) {
+		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
+		return
+	}
+	m.saved(path, path, presets.SaveScenario(path, sc, force))
+}
+
+// toSave is the scenario that s saves: the levers and the baseline.
+func (m *Model) toSave(name string) *presets.Scenario {
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
-		Name:        strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)),
+		Name:        name,
 		Description: "Saved from pvcouple explore, started from " + m.st.origin,
 		Params:      m.st.target,
 	}
@@ -133,21 +160,22 @@ func (m *Model) save(path string, force bool) {
 		b := m.st.base.Params
 		sc.Baseline = &b
 	}
-	if dir := filepath.Dir(path); !isDir(dir) {
-		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
-		return
-	}
-	err := presets.SaveScenario(path, sc, force)
+	return sc
+}
+
+// saved reports a save to name (as typed) at where (as shown): an existing
+// file asks whether to overwrite it.
+func (m *Model) saved(name, where string, err error) {
 	switch {
 	case errors.Is(err, presets.ErrExists):
-		m.confirm = path
+		m.confirm = name
 		m.mode = modeConfirm
-		m.setError(path + " exists. Overwrite it? y overwrites, any other key keeps it.")
+		m.setError(where + " exists. Overwrite it? y overwrites, any other key keeps it.")
 	case err != nil:
 		m.setError("Not saved: " + err.Error())
 	default:
-		m.lastPath = path
-		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", path))
+		m.lastPath = where
+		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", where))
 	}
 }
 
@@ -155,15 +183,21 @@ func (m *Model) save(path string, force bool) {
 // nothing on screen.
 func (m *Model) open(path string) {
 	sc, err := presets.LoadScenario(path)
+	m.opened(path, sc, err)
+}
+
+// opened puts a scenario read from the file shown as name on screen, or
+// says why it was not read.
+func (m *Model) opened(name string, sc *presets.Scenario, err error) {
 	if err == nil {
-		err = m.load(sc, path)
+		err = m.load(sc, name)
 	}
 	if err != nil {
 		m.setError("Not opened: " + err.Error())
 		return
 	}
-	m.lastPath = path
-	m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, sc.Name))
+	m.lastPath = name
+	m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", name, sc.Name))
 }
 
 // expandHome replaces a leading ~/ by the home directory.

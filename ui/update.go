@@ -57,6 +57,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return m.confirmKey(msg)
 	case modeProtocols:
 		return m.protocolsKey(msg)
+	case modeFiles:
+		return m.filesKey(msg)
 	}
 	k := m.keys
 	switch {
