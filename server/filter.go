@@ -59,10 +59,10 @@ func (c filteredChannel) Accept() (gossh.Channel, <-chan *gossh.Request, error) 
 		envs := 0
 		for r := range in {
 			if what := refusedRequest(r, &envs); what != "" {
+				c.refused(what) // logged before the client hears of it
 				if r.WantReply {
 					_ = r.Reply(false, nil)
 				}
-				c.refused(what)
 				continue
 			}
 			out <- r
@@ -83,8 +83,8 @@ func (s *Server) otherChannel(_ *ssh.Server, _ *gossh.ServerConn, nc gossh.NewCh
 	if nc.ChannelType() == "direct-tcpip" {
 		what = "port forwarding"
 	}
-	_ = nc.Reject(gossh.Prohibited, "pvcouple serves the explorer only")
 	s.refused(ctx, what)
+	_ = nc.Reject(gossh.Prohibited, "pvcouple serves the explorer only")
 }
 
 // globalRequest refuses requests on the connection: forwarding a port from

@@ -194,7 +194,7 @@ func (s *Server) program(sess ssh.Session) *tea.Program {
 	}
 	in := &idleReader{r: sess}
 	in.touch()
-	p := ui.NewProgram(m, tea.WithInput(in), tea.WithOutput(sess), tea.WithEnvironment(env), tea.WithoutSignalHandler())
+	p := ui.NewProgram(sizedModel{m}, tea.WithInput(in), tea.WithOutput(sess), tea.WithEnvironment(env), tea.WithoutSignalHandler())
 
 	ss.mu.Lock()
 	ss.prog, ss.model = p, m

@@ -73,8 +73,9 @@ func NewRenderer(w io.Writer, p termenv.Profile) *lipgloss.Renderer {
 	return r
 }
 
-// NewProgram returns the Bubble Tea program of the explorer m: full screen,
-// no mouse. Extra options (input, output) follow the defaults.
-func NewProgram(m *Model, opts ...tea.ProgramOption) *tea.Program {
+// NewProgram returns the Bubble Tea program of the explorer m (a *Model, or
+// a model that wraps one): full screen, no mouse. Extra options (input,
+// output) follow the defaults.
+func NewProgram(m tea.Model, opts ...tea.ProgramOption) *tea.Program {
 	return tea.NewProgram(m, append([]tea.ProgramOption{tea.WithAltScreen()}, opts...)...)
 }
