@@ -61,7 +61,7 @@ func runLoop(env *Env, args []string) error {
 	}
 	w := csv.NewWriter(env.Stdout)
 	if err := w.Write(loopColumns); err != nil {
-		return err
+		return outputErr(err)
 	}
 	row := make([]string, len(series))
 	for j := range series[0] {
@@ -69,9 +69,9 @@ func runLoop(env *Env, args []string) error {
 			row[i] = formatCSV(series[i][j])
 		}
 		if err := w.Write(row); err != nil {
-			return err
+			return outputErr(err)
 		}
 	}
 	w.Flush()
-	return w.Error()
+	return outputErr(w.Error())
 }

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 	"pvcouple/presets"
@@ -93,7 +94,7 @@ func runProtocolRun(env *Env, args []string) error {
 		return err
 	}
 	if *samples != "" {
-		fmt.Fprintf(env.Stderr, "pvcouple: wrote %d samples (%.3f s at %d Hz) to %s\n", run.samples, run.duration, samplesRate, *samples)
+		fmt.Fprintf(env.Stderr, "pvcouple: wrote %d samples (%.3f s at %d Hz) to %s\n", run.samples, run.duration, samplesRate, safetext.Line(*samples))
 	}
 	if *format == "json" {
 		return writeJSON(env, run.object())
@@ -173,12 +174,12 @@ func (r *protocolRun) writeCSV(env *Env) error {
 		header = append(header, leverPrefix+k)
 	}
 	if err := w.Write(header); err != nil {
-		return err
+		return outputErr(err)
 	}
 	row := make([]string, len(header))
 	for _, b := range r.beats {
 		row = row[:0]
-		row = append(row, strconv.Itoa(b.index+1), r.plan.Label(b.index), formatCSV(b.tStart))
+		row = append(row, strconv.Itoa(b.index+1), safetext.Line(r.plan.Label(b.index)), formatCSV(b.tStart))
 		for _, m := range model.MetricSpecs {
 			row = append(row, formatCSV(m.Get(&b.metrics)))
 		}
@@ -187,11 +188,11 @@ func (r *protocolRun) writeCSV(env *Env) error {
 			row = append(row, formatCSV(spec.Get(r.plan.Params[b.index])))
 		}
 		if err := w.Write(row); err != nil {
-			return err
+			return outputErr(err)
 		}
 	}
 	w.Flush()
-	return w.Error()
+	return outputErr(w.Error())
 }
 
 func (r *protocolRun) object() object {

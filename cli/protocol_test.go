@@ -298,7 +298,7 @@ func TestProtocolBadInput(t *testing.T) {
 		{[]string{"protocol", "run", "rate-steps", "--force"}, 2, []string{"--force only applies with --samples"}},
 		{[]string{"protocol", "run", "rate-steps", "--samples", existing}, 1, []string{"old.csv", "file exists", "--force"}},
 		{[]string{"protocol", "run", "rate-steps", "--set", "heart_rate_bpm=fast"}, 2, []string{"heart_rate_bpm", "30 to 180 bpm"}},
-		{[]string{"protocol", "run", "rate-steps", "--preset", "athlete"}, 1, []string{`unknown preset "athlete"`}},
+		{[]string{"protocol", "run", "rate-steps", "--preset", "athlete"}, 2, []string{`unknown preset "athlete"`}},
 		{[]string{"protocol", "show"}, 2, []string{"one built-in protocol name", "rate-steps"}},
 		{[]string{"protocol", "show", "nosuch"}, 1, []string{`unknown protocol "nosuch"`}},
 		{[]string{"protocol", "list", "x"}, 2, []string{"no arguments"}},

@@ -36,3 +36,32 @@ func TestFailedSamplesWriteLeavesOldFile(t *testing.T) {
 		t.Errorf("failed write left files behind: %v", entries)
 	}
 }
+
+// Every file a command writes fails cleanly on a full disk (a real write
+// failure: a file-size limit): exit 1, the option and the file named, the
+// temporary file gone and no file of that name left.
+func TestFilesFailCleanlyOnFullDisk(t *testing.T) {
+	rec := writeRecording(t, 10, 0)
+	for _, c := range []struct {
+		name string
+		args func(path string) []string
+		want string
+	}{
+		{"scenario.yaml", func(p string) []string { return []string{"solve", "--save", p} }, "cannot save scenario"},
+		{"fitted.yaml", func(p string) []string { return []string{"fit", rec, "-o", p, "--max-seconds", "0.5"} }, "cannot save scenario"},
+		{"figure.svg", func(p string) []string { return []string{"figure", "-o", p} }, "cannot write"},
+		{"run.csv", func(p string) []string { return []string{"protocol", "run", "rate-steps", "--samples", p} }, "--samples"},
+	} {
+		dir := t.TempDir()
+		path := filepath.Join(dir, c.name)
+		var code int
+		var errs string
+		fsizelimit.Run(t, 100, func() { code, _, errs = runCLI(t, c.args(path)...) })
+		if code != 1 || !strings.Contains(errs, c.want) || !strings.Contains(errs, path) || strings.Contains(errs, ".tmp-") {
+			t.Errorf("%s: exit %d, stderr %q", c.name, code, errs)
+		}
+		if entries, _ := os.ReadDir(dir); len(entries) != 0 {
+			t.Errorf("%s: left %v", c.name, entries)
+		}
+	}
+}

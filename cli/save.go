@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/presets"
 )
 
@@ -41,12 +42,12 @@ func (f *saveFlags) save(env *Env, sel *selection, sc *presets.Scenario) error {
 		return nil
 	}
 	out := *sc
-	out.Name = strings.TrimSuffix(filepath.Base(f.path), filepath.Ext(f.path))
+	out.Name = safetext.Line(strings.TrimSuffix(filepath.Base(f.path), filepath.Ext(f.path)))
 	out.Base = ""
 	from := "preset " + presets.Default
 	switch {
 	case sel.scenario != "":
-		from = "scenario file " + sel.scenario
+		from = "scenario file " + safetext.Line(sel.scenario)
 	case sel.preset != "":
 		from = "preset " + sel.preset
 	}
@@ -64,6 +65,6 @@ func (f *saveFlags) save(env *Env, sel *selection, sc *presets.Scenario) error {
 	if err := presets.SaveScenario(f.path, &out, f.force); err != nil {
 		return err
 	}
-	fmt.Fprintf(env.Stderr, "pvcouple: saved scenario %s to %s\n", out.Name, f.path)
+	fmt.Fprintf(env.Stderr, "pvcouple: saved scenario %s to %s\n", safetext.Line(out.Name), safetext.Line(f.path))
 	return nil
 }

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"os"
 	"os/exec"
-	"path/filepath"
 	"strings"
 	"testing"
 	"time"
@@ -144,15 +143,8 @@ func readoutFields(screen, label string) []string {
 // builds the binary and returns its path.
 func buildForTmux(t *testing.T) string {
 	t.Helper()
-	if testing.Short() {
-		t.Skip("builds the binary and runs tmux")
-	}
 	if _, err := exec.LookPath("tmux"); err != nil {
 		t.Skip("no tmux")
 	}
-	bin := filepath.Join(t.TempDir(), "pvcouple")
-	if out, err := exec.Command("go", "build", "-o", bin, "pvcouple").CombinedOutput(); err != nil {
-		t.Fatalf("build: %v\n%s", err, out)
-	}
-	return bin
+	return buildBinary(t)
 }

@@ -5,7 +5,6 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
-	"io"
 	"io/fs"
 	"os"
 	"path"
@@ -14,6 +13,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"pvcouple/internal/safefile"
 	"pvcouple/presets"
 	"pvcouple/ui"
 )
@@ -24,9 +24,6 @@ const (
 	maxDepth = 4
 	// maxListed caps the files listed from one folder.
 	maxListed = 1000
-	// maxOpen caps the bytes read from one file: a recording of an hour at
-	// 1 kHz with a few columns is about 100 MB less than this allows.
-	maxOpen = 256 << 20
 	// maxSaveName caps the length of a saved file's name.
 	maxSaveName = 64
 )
@@ -160,8 +157,9 @@ func hasExt(name string, exts []string) bool {
 }
 
 // Open implements ui.Folders: the name must be a plain relative path inside
-// its folder, without hidden parts, and the file a regular one.
-func (f *folders) Open(file ui.File) (io.ReadCloser, error) {
+// its folder, without hidden parts, and the file a regular one. It is opened
+// without waiting (a FIFO would otherwise block) and checked once open.
+func (f *folders) Open(file ui.File) (*os.File, error) {
 	root := f.own
 	if file.Shared {
 		if f.shared == nil {
@@ -177,15 +175,14 @@ func (f *folders) Open(file ui.File) (io.ReadCloser, error) {
 		return nil, fmt.Errorf("cannot open %s: %w", file.Name, trimPathError(err))
 	}
 	fi, err := fh.Stat()
+	if err == nil {
+		err = safefile.Check(file.Name, fi)
+	}
 	if err != nil {
 		fh.Close()
-		return nil, fmt.Errorf("cannot open %s: %w", file.Name, err)
+		return nil, err
 	}
-	if !fi.Mode().IsRegular() {
-		fh.Close()
-		return nil, fmt.Errorf("%s is not a regular file", file.Name)
-	}
-	return &capped{f: fh, name: file.Name, left: maxOpen}, nil
+	return fh, nil
 }
 
 // checkRelative refuses a name that is not a clean relative slash path
@@ -211,31 +208,6 @@ func trimPathError(err error) error {
 	}
 	return err
 }
-
-// capped reads a file of at most left bytes and refuses a larger one.
-type capped struct {
-	f    *os.File
-	name string
-	left int64
-}
-
-func (c *capped) Read(p []byte) (int, error) {
-	if c.left <= 0 {
-		var one [1]byte
-		if n, _ := c.f.Read(one[:]); n > 0 {
-			return 0, fmt.Errorf("%s: larger than %d MiB", c.name, maxOpen>>20)
-		}
-		return 0, io.EOF
-	}
-	if int64(len(p)) > c.left {
-		p = p[:c.left]
-	}
-	n, err := c.f.Read(p)
-	c.left -= int64(n)
-	return n, err
-}
-
-func (c *capped) Close() error { return c.f.Close() }
 
 // SaveName checks the name of a file to save in a fellow's folder and adds
 // ".yaml" when it has no YAML ending: a plain name of at most 64 characters

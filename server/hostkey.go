@@ -12,6 +12,8 @@ import (
 	"path/filepath"
 
 	gossh "golang.org/x/crypto/ssh"
+
+	"pvcouple/internal/safefile"
 )
 
 // maxKeyFile caps the size of a key file read, bytes; keys are a few KiB.
@@ -95,30 +97,17 @@ func createHostKey(path string) error {
 // readCapped reads the file at path, refusing one larger than limit bytes or
 // one that is not a regular file (a FIFO would block the read).
 func readCapped(path string, limit int64) ([]byte, error) {
-	f, err := os.OpenFile(path, os.O_RDONLY|nonBlock, 0)
+	f, err := safefile.Open(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	return readRegular(f, path, limit)
-}
-
-// readRegular reads an open file of at most limit bytes that must be a
-// regular file.
-func readRegular(f *os.File, name string, limit int64) ([]byte, error) {
-	fi, err := f.Stat()
-	if err != nil {
-		return nil, err
-	}
-	if !fi.Mode().IsRegular() {
-		return nil, fmt.Errorf("%s: not a regular file (%s)", name, fi.Mode().Type())
-	}
 	data, err := io.ReadAll(io.LimitReader(f, limit+1))
 	if err != nil {
 		return nil, err
 	}
 	if int64(len(data)) > limit {
-		return nil, fmt.Errorf("%s: larger than %d KiB", name, limit>>10)
+		return nil, fmt.Errorf("%s: larger than %d KiB", path, limit>>10)
 	}
 	return data, nil
 }

@@ -2,14 +2,13 @@ package ui
 
 import (
 	"fmt"
-	"io"
+	"os"
 	"path"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
-	"pvcouple/model/analysis"
-	"pvcouple/presets"
+	"pvcouple/internal/safetext"
 )
 
 // In a lab server's session (Model.folders set), o, O and a protocol file
@@ -57,7 +56,7 @@ func (m *Model) openFiles(k FileKind) {
 	m.picker = picker{rows: max(m.h-12, 3)}
 	m.fileKind, m.files = k, files
 	for i, f := range files {
-		m.picker.names = append(m.picker.names, fileLabel(f))
+		m.picker.names = append(m.picker.names, safetext.Line(fileLabel(f))) // names are the folder's: keep them inert
 		m.picker.descs = append(m.picker.descs, sizeText(f.Size))
 		if fileLabel(f) == last {
 			m.picker.sel = i
@@ -95,55 +94,20 @@ func (m *Model) filesKey(msg tea.KeyMsg) tea.Cmd {
 	return nil
 }
 
-// openFile reads a listed file and does what the list was for; a file that
-// cannot be read changes nothing.
-func (m *Model) openFile(f File) tea.Cmd {
-	label := fileLabel(f)
-	rc, err := m.folders.Open(f)
-	if err != nil {
-		m.setError(fmt.Sprintf("Not opened: %s: %v", label, err))
-		return nil
-	}
-	defer rc.Close()
-	switch m.fileKind {
-	case RecordingFiles:
-		var a *analysis.Analysis
-		rec, err := analysis.ReadCSV(rc, label, analysis.ReadOptions{})
-		if err == nil {
-			a, err = analysis.Analyze(rec, analysis.Options{})
-		}
-		m.overlaid(label, a, err)
-		return nil
-	}
-	data, err := readAtMost(rc, presets.MaxFileSize, label)
-	if m.fileKind == ProtocolFiles {
-		var pr *presets.Protocol
-		if err == nil {
-			pr, err = presets.ParseProtocol(data, label)
-		}
-		if err == nil {
-			m.lastProtocolPath = label
-		}
-		return m.playLoaded(label, pr, err)
-	}
-	var sc *presets.Scenario
-	if err == nil {
-		sc, err = presets.ParseScenario(data, label)
-	}
-	m.opened(label, sc, err)
-	return nil
+// fileLoads is how each kind of file is read, as from a path.
+var fileLoads = map[FileKind]fileLoad{
+	ScenarioFiles:  scenarioLoad,
+	ProtocolFiles:  protocolLoad,
+	RecordingFiles: recordingLoad,
 }
 
-// readAtMost reads r to its end, refusing more than limit bytes.
-func readAtMost(r io.Reader, limit int64, label string) ([]byte, error) {
-	data, err := io.ReadAll(io.LimitReader(r, limit+1))
-	if err != nil {
-		return nil, err
-	}
-	if int64(len(data)) > limit {
-		return nil, fmt.Errorf("%s: larger than %d KiB: not a scenario or protocol file", label, limit>>10)
-	}
-	return data, nil
+// openFile reads a listed file in the background, as a path typed locally
+// is read, and does what the list was for; a file that cannot be read
+// changes nothing.
+func (m *Model) openFile(f File) tea.Cmd {
+	folders := m.folders
+	open := func(string) (*os.File, error) { return folders.Open(f) }
+	return m.startLoadWith(fileLoads[m.fileKind], fileLabel(f), open)
 }
 
 // saveInFolder saves the scenario as name in the fellow's folder.

@@ -1,6 +1,6 @@
 package ui
 
-import "io"
+import "os"
 
 // Folders are the only files an explorer may open and save when it is
 // served to a lab: the fellow's own folder, where saves go, and the lab's
@@ -14,8 +14,9 @@ type Folders interface {
 	// the shared one, each folder's in name order. A folder that cannot be
 	// read is an error.
 	List(k FileKind) ([]File, error)
-	// Open opens f for reading.
-	Open(f File) (io.ReadCloser, error)
+	// Open opens f for reading; it must be a regular file (the explorer
+	// checks it again). It is called off the update loop.
+	Open(f File) (*os.File, error)
 	// Save writes data to the file name in the fellow's folder
 	// atomically: a failure leaves an older file intact. An existing file
 	// is replaced only if overwrite is set, else the error wraps

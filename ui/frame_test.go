@@ -27,6 +27,7 @@ func newTestModel(tb testing.TB, preset string, p termenv.Profile) *Model {
 	if err != nil {
 		tb.Fatal(err)
 	}
+	m.loadTick = func(int) tea.Cmd { return nil } // press runs a load at once; no progress to show
 	return m
 }
 

@@ -9,6 +9,8 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/internal/pool"
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -76,6 +78,12 @@ type Model struct {
 	// Recording overlay and background work (overlay.go, follow.go).
 	lastRecPath string // the recording last opened
 	closed      bool   // Close was called: no more background work
+
+	// Files read off the update loop (load.go).
+	opener   safefile.Opener      // opens the files read; nil: safefile.Open
+	loading  *loading             // the load in progress, nil when none
+	loads    int                  // loads started; the id of the latest
+	loadTick func(id int) tea.Cmd // the progress tick (defaultLoadTick)
 }
 
 // Options are what an explorer shares with others in the same process.
@@ -112,6 +120,7 @@ func NewWithOptions(sc *presets.Scenario, origin string, styles *Styles, opt Opt
 		views:      newViews(styles),
 		readouts:   newReadoutPanel(styles),
 		levers:     newLeverPanel(styles),
+		loadTick:   defaultLoadTick,
 	}
 	for _, v := range m.views {
 		switch v := v.(type) {
@@ -141,24 +150,36 @@ func (m *Model) Init() tea.Cmd { return nil }
 // on screen as the levers and the baseline; on failure nothing changes.
 func (m *Model) load(sc *presets.Scenario, origin string) error {
 	var cur, base *model.Steady
-	var err, baseErr error
-	m.compute(func() {
-		cur, err = m.syncSolver.SteadyState(sc.Params, nil)
-		base = cur
-		if err == nil && sc.Baseline != nil && *sc.Baseline != sc.Params {
-			base, baseErr = m.syncSolver.SteadyState(*sc.Baseline, nil)
-		}
-	})
+	var err error
+	m.compute(func() { cur, base, err = solveScenario(m.syncSolver, sc, origin) })
 	if err != nil {
-		return fmt.Errorf("%s: %w", origin, err)
+		return err
 	}
-	if baseErr != nil {
-		return fmt.Errorf("%s: baseline: %w", origin, baseErr)
+	m.show(sc, origin, cur, base)
+	return nil
+}
+
+// solveScenario solves scenario sc and its baseline on s.
+func solveScenario(s *model.Solver, sc *presets.Scenario, origin string) (cur, base *model.Steady, err error) {
+	cur, err = s.SteadyState(sc.Params, nil)
+	if err != nil {
+		return nil, nil, fmt.Errorf("%s: %w", origin, err)
 	}
+	base = cur
+	if sc.Baseline != nil && *sc.Baseline != sc.Params {
+		if base, err = s.SteadyState(*sc.Baseline, nil); err != nil {
+			return nil, nil, fmt.Errorf("%s: baseline: %w", origin, err)
+		}
+	}
+	return cur, base, nil
+}
+
+// show puts a solved scenario on screen as the levers and the baseline.
+func (m *Model) show(sc *presets.Scenario, origin string, cur, base *model.Steady) {
 	if m.st.shown != nil {
 		m.hist.push(m.snapshot())
 	}
-	m.st = state{name: sc.Name, origin: origin, target: sc.Params, shown: cur, base: base}
+	m.st = state{name: safetext.Line(sc.Name), origin: origin, target: sc.Params, shown: cur, base: base}
 	m.gen++
 	m.floor = m.gen
 	m.pending = ""
@@ -166,7 +187,6 @@ func (m *Model) load(sc *presets.Scenario, origin string) error {
 	for _, v := range m.views {
 		v.Refit()
 	}
-	return nil
 }
 
 // snapshot is the state undo returns to.
@@ -174,8 +194,9 @@ func (m *Model) snapshot() snapshot {
 	return snapshot{name: m.st.name, origin: m.st.origin, target: m.st.target, base: m.st.base}
 }
 
-// setStatus says what just happened.
-func (m *Model) setStatus(s string) { m.status, m.statusErr = s, false }
+// setStatus says what just happened. Whatever came from a file or a path in
+// it is escaped (it may hold control characters).
+func (m *Model) setStatus(s string) { m.status, m.statusErr = safetext.Line(s), false }
 
 // setError says what went wrong; the screen is otherwise unchanged.
-func (m *Model) setError(s string) { m.status, m.statusErr = s, true }
+func (m *Model) setError(s string) { m.status, m.statusErr = safetext.Line(s), true }

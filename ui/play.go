@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -9,6 +10,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/safefile"
 	"pvcouple/presets"
 )
 
@@ -47,22 +49,22 @@ func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
 	return m.nextTick()
 }
 
-// playFile plays the protocol file at path.
-func (m *Model) playFile(path string) tea.Cmd {
-	pr, err := presets.LoadProtocol(path)
-	return m.playLoaded(path, pr, err)
+// protocolLoad reads a protocol file off the update loop; it plays from the
+// levers as they are when it has been read.
+var protocolLoad = fileLoad{
+	what: "protocol",
+	then: "Checking",
+	read: func(_ context.Context, f *safefile.File, path string) (any, error) {
+		return presets.ReadProtocol(f, path)
+	},
+	apply: func(m *Model, path string, res any) tea.Cmd {
+		m.lastProtocolPath = path
+		return m.startProtocol(res.(*presets.Protocol))
+	},
 }
 
-// playLoaded plays a protocol read from the file shown as path, or says why
-// it was not read.
-func (m *Model) playLoaded(path string, pr *presets.Protocol, err error) tea.Cmd {
-	if err != nil {
-		m.setError(err.Error())
-		return nil
-	}
-	m.lastProtocolPath = path
-	return m.startProtocol(pr)
-}
+// playFile reads the protocol file at path in the background and plays it.
+func (m *Model) playFile(path string) tea.Cmd { return m.startLoad(protocolLoad, path) }
 
 // nextTick asks for the next beat after the beat on screen has shown for
 // its period at the playing speed.

@@ -5,6 +5,10 @@ import (
 	"io"
 	"strings"
 
+	// Declares the background dark before Bubble Tea's init can ask the
+	// terminal (see the package's comment).
+	_ "early.invalid/quietterm"
+
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/muesli/termenv"

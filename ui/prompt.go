@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"os"
@@ -13,6 +14,9 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
+	"pvcouple/model"
 	"pvcouple/presets"
 )
 
@@ -105,11 +109,11 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 		case promptSave:
 			m.save(path, false)
 		case promptOpen:
-			m.open(path)
+			return m.open(path)
 		case promptProtocol:
 			return m.playFile(path)
 		case promptRecording:
-			m.openRecording(path)
+			return m.openRecording(path)
 		}
 		return nil
 	}
@@ -148,12 +152,12 @@ func (m *Model) save(path string, force bool) {
 	m.saved(path, path, presets.SaveScenario(path, sc, force))
 }
 
-// toSave is the scenario that s saves: the levers and the baseline.
+// toSave is the scenario that s saves as name: the levers and the baseline.
 func (m *Model) toSave(name string) *presets.Scenario {
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
-		Name:        name,
-		Description: "Saved from pvcouple explore, started from " + m.st.origin,
+		Name:        safetext.Line(name),
+		Description: "Saved from pvcouple explore, started from " + safetext.Line(m.st.origin),
 		Params:      m.st.target,
 	}
 	if m.st.base != nil {
@@ -163,8 +167,8 @@ func (m *Model) toSave(name string) *presets.Scenario {
 	return sc
 }
 
-// saved reports a save to name (as typed) at where (as shown): an existing
-// file asks whether to overwrite it.
+// saved reports a save to name (as typed) shown as where: an existing file
+// asks whether to overwrite it.
 func (m *Model) saved(name, where string, err error) {
 	switch {
 	case errors.Is(err, presets.ErrExists):
@@ -179,26 +183,42 @@ func (m *Model) saved(name, where string, err error) {
 	}
 }
 
-// open loads a scenario file; a file that fails to load or solve changes
-// nothing on screen.
-func (m *Model) open(path string) {
-	sc, err := presets.LoadScenario(path)
-	m.opened(path, sc, err)
+// scenarioLoad reads a scenario file and solves it and its baseline off the
+// update loop; a file that fails to load or solve changes nothing on screen.
+var scenarioLoad = fileLoad{
+	what: "scenario",
+	then: "Solving",
+	read: func(ctx context.Context, f *safefile.File, path string) (any, error) {
+		sc, err := presets.ReadScenario(f, path)
+		if err != nil {
+			return nil, err
+		}
+		var cur, base *model.Steady
+		if perr := inPool(ctx, func() { cur, base, err = solveScenario(model.NewSolver(), sc, path) }); perr != nil {
+			return nil, perr
+		}
+		if err != nil {
+			return nil, err
+		}
+		return &openedScenario{sc: sc, cur: cur, base: base}, nil
+	},
+	apply: func(m *Model, path string, res any) tea.Cmd {
+		o := res.(*openedScenario)
+		m.show(o.sc, path, o.cur, o.base)
+		m.lastPath = path
+		m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, o.sc.Name))
+		return nil
+	},
 }
 
-// opened puts a scenario read from the file shown as name on screen, or
-// says why it was not read.
-func (m *Model) opened(name string, sc *presets.Scenario, err error) {
-	if err == nil {
-		err = m.load(sc, name)
-	}
-	if err != nil {
-		m.setError("Not opened: " + err.Error())
-		return
-	}
-	m.lastPath = name
-	m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", name, sc.Name))
+// openedScenario is a scenario read and solved.
+type openedScenario struct {
+	sc        *presets.Scenario
+	cur, base *model.Steady
 }
+
+// open reads a scenario file in the background.
+func (m *Model) open(path string) tea.Cmd { return m.startLoad(scenarioLoad, path) }
 
 // expandHome replaces a leading ~/ by the home directory.
 func expandHome(p string) string {

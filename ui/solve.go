@@ -134,6 +134,27 @@ func (m *Model) compute(fn func()) {
 	}
 }
 
+// tenantKey carries an explorer's tenant in the context of a load.
+type tenantKey struct{}
+
+// inPool runs fn, model work of a load, in a slot of the tenant that ctx
+// carries (see startLoadWith); it returns ctx's error if the load was
+// cancelled while it waited.
+func inPool(ctx context.Context, fn func()) error {
+	t, ok := ctx.Value(tenantKey{}).(*pool.Tenant)
+	if !ok {
+		fn()
+		return nil
+	}
+	if err := t.Do(ctx, pool.Interactive, fn); err != nil {
+		if ctx.Err() != nil {
+			return ctx.Err()
+		}
+		fn() // the tenant is closed: the explorer is ending
+	}
+	return nil
+}
+
 // solveFailure words a failed solve for the status line.
 func solveFailure(err error) string {
 	var ns *model.NotSettledError

@@ -506,7 +506,7 @@ func TestOpenBadFileChangesNothing(t *testing.T) {
 	}{
 		{bad, []string{"bad.yaml:4", "ees_mmhg_per_ml = 40", "allowed 0.2 to 10 mmHg/mL"}},
 		{filepath.Join(dir, "none.yaml"), []string{"none.yaml", "no such file"}},
-		{dir, []string{"is a directory"}},
+		{dir, []string{"is a folder, not a regular file"}},
 	} {
 		m := sized(t, "normal")
 		keys(m, "up")

@@ -1,0 +1,5 @@
+module early.invalid/quietterm
+
+go 1.26.8
+
+require github.com/charmbracelet/lipgloss v1.1.0
