@@ -65,7 +65,7 @@ func analysisObject(path string, a *analysis.Analysis) object {
 	beats := make([]object, 0, len(a.Beats))
 	for _, b := range a.Beats {
 		row := object{
-			{"beat", b.Index}, {"start_s", number(b.Start)}, {"end_s", number(b.End)},
+			{"beat", b.Index}, {"start_s", number(seconds(b.Start))}, {"end_s", number(seconds(b.End))},
 			{"kept", b.Kept()}, {"drop_reason", nullable(b.Dropped)},
 		}
 		beats = append(beats, append(row, metricsObject(&b.Metrics)...))
@@ -89,7 +89,7 @@ func analysisObject(path string, a *analysis.Analysis) object {
 			{"rows", r.Rows},
 			{"samples", len(r.T)},
 			{"sample_rate_hz", number(r.Rate)},
-			{"duration_s", number(r.Duration())},
+			{"duration_s", number(seconds(r.Duration()))},
 			{"columns", object{{"time", nullable(r.Columns.Time)}, {"pressure", r.Columns.Pressure},
 				{"volume", r.Columns.Volume}, {"aortic", nullable(r.Columns.Aortic)}}},
 			{"units_read", object{{"time", r.Columns.TimeUnit}, {"pressure", r.Columns.PressureUnit}, {"volume", r.Columns.VolumeUnit}}},

@@ -92,7 +92,7 @@ func TestInfoCommands(t *testing.T) {
 		want []string
 	}{
 		{[]string{"params"}, []string{"filling_pressure_mmhg", "mmHg", "1", "40", "preload"}},
-		{[]string{"presets"}, []string{"normal", "hfref", "hfpef", "(default)"}},
+		{[]string{"presets"}, []string{"invented cases of our own, labelled so", "normal", "hfref", "hfpef", "(default)"}},
 		{[]string{"--help"}, []string{"solve", "loop", "not for treating", "clinical judgement"}},
 		{[]string{"--version"}, []string{"pvcouple " + Version}},
 		{[]string{"solve", "--help"}, []string{"--preset", "--scenario", "--set", "--format"}},

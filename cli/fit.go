@@ -28,7 +28,7 @@ scenario that 'pvcouple explore --scenario FILE' opens as the baseline for what-
 A model fitted to a recording, for research and education planning; not patient advice.`
 
 func runFit(env *Env, args []string) error {
-	fs := newFlags(env, "fit", "fit FILE.csv [-o scenario.yaml] [--force] [--format table|json] [options]", fitAbout)
+	fs := newFlags(env, "fit", "fit FILE.csv [-o scenario.yaml [--force]] [--name NAME] [--format table|json] [--max-seconds S] [options]", fitAbout)
 	var rf recordingFlags
 	rf.addFlags(fs)
 	out := fs.String("o", "", "write the fitted scenario to `FILE` (YAML)")

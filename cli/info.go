@@ -42,6 +42,7 @@ func runPresets(env *Env, args []string) error {
 		return usagef("presets takes no arguments")
 	}
 	out := newStdout(env)
+	fmt.Fprintln(out, "Built-in scenarios: invented cases of our own, labelled so in their notes; not patient data.")
 	w := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 	for _, n := range presets.Names() {
 		sc, err := presets.Get(n)

@@ -122,6 +122,10 @@ func formatValue(v float64) string {
 	}
 }
 
+// seconds rounds a time in seconds to the microsecond, far finer than any
+// sampling here, so that sums of periods print as 18, not 18.000000000000004.
+func seconds(t float64) float64 { return math.Round(t*1e6) / 1e6 }
+
 // formatCSV formats a number for CSV: shortest exact decimal, empty for NaN.
 func formatCSV(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {

@@ -95,6 +95,7 @@ func runProtocolList(env *Env, args []string) error {
 		return usagef("protocol list takes no arguments")
 	}
 	out := newStdout(env)
+	fmt.Fprintln(out, "Built-in protocols: invented by us, labelled so in their notes; for research and education planning.")
 	w := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(w, "NAME\tBEATS\tDESCRIPTION")
 	for _, n := range presets.ProtocolNames() {

@@ -139,7 +139,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 		if out != nil {
 			rec := rb.Recording
 			for i := range rec.T {
-				line = strconv.AppendFloat(line[:0], rec.T[i], 'f', -1, 64)
+				line = strconv.AppendFloat(line[:0], seconds(rec.T[i]), 'f', -1, 64)
 				line = append(line, ',')
 				line = strconv.AppendFloat(line, rec.P[i], 'g', -1, 64)
 				line = append(line, ',')
@@ -179,7 +179,7 @@ func (r *protocolRun) writeCSV(env *Env) error {
 	row := make([]string, len(header))
 	for _, b := range r.beats {
 		row = row[:0]
-		row = append(row, strconv.Itoa(b.index+1), safetext.Line(r.plan.Label(b.index)), formatCSV(b.tStart))
+		row = append(row, strconv.Itoa(b.index+1), safetext.Line(r.plan.Label(b.index)), formatCSV(seconds(b.tStart)))
 		for _, m := range model.MetricSpecs {
 			row = append(row, formatCSV(m.Get(&b.metrics)))
 		}
@@ -203,7 +203,7 @@ func (r *protocolRun) object() object {
 	}
 	beats := make([]object, len(r.beats))
 	for i, b := range r.beats {
-		o := object{{"beat", b.index + 1}, {"step", r.plan.Label(b.index)}, {"t_start_s", number(b.tStart)}}
+		o := object{{"beat", b.index + 1}, {"step", r.plan.Label(b.index)}, {"t_start_s", number(seconds(b.tStart))}}
 		o = append(o, metricsObject(&b.metrics)...)
 		for _, k := range levers {
 			spec, _ := model.SpecByKey(k)
@@ -220,7 +220,7 @@ func (r *protocolRun) object() object {
 		{"scenario", r.scenario.Name},
 		{"params", paramsObject(r.plan.Initial)},
 		{"levers", levers},
-		{"duration_s", number(r.duration)},
+		{"duration_s", number(seconds(r.duration))},
 		{"steps", steps},
 		{"beats", beats},
 		{"espvr_fit", fit},

@@ -3,7 +3,11 @@
 package cli
 
 import (
+	"bytes"
+	"errors"
+	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -38,9 +42,11 @@ func TestFailedSamplesWriteLeavesOldFile(t *testing.T) {
 }
 
 // Every file a command writes fails cleanly on a full disk (a real write
-// failure: a file-size limit): exit 1, the option and the file named, the
-// temporary file gone and no file of that name left.
+// failure: the binary runs under a file-size limit of 0, ulimit -f, with
+// SIGXFSZ ignored): exit 1, the option and the file named, the temporary
+// file gone and no file of that name left.
 func TestFilesFailCleanlyOnFullDisk(t *testing.T) {
+	bin := buildBinary(t)
 	rec := writeRecording(t, 10, 0)
 	for _, c := range []struct {
 		name string
@@ -54,11 +60,15 @@ func TestFilesFailCleanlyOnFullDisk(t *testing.T) {
 	} {
 		dir := t.TempDir()
 		path := filepath.Join(dir, c.name)
-		var code int
-		var errs string
-		fsizelimit.Run(t, 100, func() { code, _, errs = runCLI(t, c.args(path)...) })
-		if code != 1 || !strings.Contains(errs, c.want) || !strings.Contains(errs, path) || strings.Contains(errs, ".tmp-") {
-			t.Errorf("%s: exit %d, stderr %q", c.name, code, errs)
+		cmd := exec.Command("sh", append([]string{"-c", `trap '' XFSZ; ulimit -f 0; exec "$@"`, "sh", bin}, c.args(path)...)...)
+		var errb bytes.Buffer
+		cmd.Stdout, cmd.Stderr = io.Discard, &errb
+		err := cmd.Run()
+		errs := errb.String()
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(errs, c.want) || !strings.Contains(errs, path) ||
+			!strings.Contains(errs, "file too large") || strings.Contains(errs, ".tmp-") {
+			t.Errorf("%s: %v, stderr %q", c.name, err, errs)
 		}
 		if entries, _ := os.ReadDir(dir); len(entries) != 0 {
 			t.Errorf("%s: left %v", c.name, entries)

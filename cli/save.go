@@ -52,10 +52,18 @@ func (f *saveFlags) save(env *Env, sel *selection, sc *presets.Scenario) error {
 		from = "preset " + sel.preset
 	}
 	note := "Saved by `pvcouple solve` from " + from
-	if len(sel.sets) > 0 {
-		note += " with --set " + strings.Join(sel.sets, " --set ")
+	sets, err := parseSets(sel.sets) // checked already; written as KEY=VALUE, nothing of the argument's spacing
+	if err != nil {
+		return err
+	}
+	if len(sets) > 0 {
+		var kv []string
+		for _, s := range sets {
+			kv = append(kv, s.String())
+		}
+		note += " with --set " + strings.Join(kv, " --set ")
 		if out.Description != "" {
-			out.Description += ", with " + strings.Join(sel.sets, " ")
+			out.Description += ", with " + strings.Join(kv, " ")
 		}
 	}
 	if out.Notes != "" && !strings.HasSuffix(out.Notes, "\n") {

@@ -59,6 +59,17 @@ func TestServeSetUpAndSignals(t *testing.T) {
 	if len(cmds) != 2 {
 		t.Fatalf("%d commands in the set-up text, want 2", len(cmds))
 	}
+	// The README gives the same two commands (in a shell block of its own:
+	// they are run here, not with the README's other examples).
+	readme, err := os.ReadFile(filepath.Join("..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range strings.Split(serveSetup, "\n") {
+		if strings.HasPrefix(l, "  ") && !strings.Contains(string(readme), "\n"+strings.TrimSpace(l)+"\n") {
+			t.Errorf("the README lacks the set-up command %q", strings.TrimSpace(l))
+		}
+	}
 	setup := exec.Command("sh", "-c", cmds[0])
 	setup.Dir = dir
 	if out, err := setup.CombinedOutput(); err != nil {

@@ -4,19 +4,22 @@ import (
 	"fmt"
 	"os"
 	"os/exec"
+	"path/filepath"
 	"strings"
 	"testing"
 	"time"
 )
 
-// tmuxPane drives the real binary in a tmux pane on a private tmux server.
+// tmuxPane drives the real binary in a tmux pane on a private tmux server
+// whose socket is in the test's temporary folder, so that nothing is left
+// in /tmp.
 type tmuxPane struct {
 	t      *testing.T
-	socket string
+	socket string // path
 }
 
 func (p *tmuxPane) run(args ...string) (string, error) {
-	out, err := exec.Command("tmux", append([]string{"-L", p.socket}, args...)...).CombinedOutput()
+	out, err := exec.Command("tmux", append([]string{"-S", p.socket}, args...)...).CombinedOutput()
 	return string(out), err
 }
 
@@ -71,12 +74,15 @@ func (p *tmuxPane) gone() bool {
 // given environment and arguments.
 func startTmux(t *testing.T, bin string, w, h int, env string, args ...string) *tmuxPane {
 	t.Helper()
-	p := &tmuxPane{t: t, socket: fmt.Sprintf("pvcouple-test-%d-%d", os.Getpid(), time.Now().UnixNano())}
+	p := &tmuxPane{t: t, socket: filepath.Join(t.TempDir(), "tmux")}
 	cmd := fmt.Sprintf("env %s %s %s", env, bin, strings.Join(args, " "))
 	if out, err := p.run("-f", "/dev/null", "new-session", "-d", "-s", "x", "-x", fmt.Sprint(w), "-y", fmt.Sprint(h), cmd); err != nil {
 		t.Fatalf("tmux: %v %s", err, out)
 	}
-	t.Cleanup(func() { _, _ = p.run("kill-server") })
+	t.Cleanup(func() {
+		_, _ = p.run("kill-server")
+		os.Remove(p.socket)
+	})
 	return p
 }
 

@@ -129,3 +129,31 @@ func TestSaveRefusesControlCharacters(t *testing.T) {
 		t.Errorf("protocol name from its file: %q, %v", pr.Name, err)
 	}
 }
+
+// A scenario file reads numbers as --set does (ParseNumber): decimal only,
+// with one message for hexadecimal, octal and binary forms and digit
+// separators, whichever way YAML would resolve them.
+func TestFileNumbersReadAsSetDoes(t *testing.T) {
+	for _, c := range []struct{ val, want string }{
+		{"0x50", `"0x50" is not a decimal number`},
+		{"0x1p6", `"0x1p6" is not a decimal number`},
+		{"0o120", `"0o120" is not a decimal number`},
+		{"8_0", `"8_0" is not a number`},
+		{".inf", `".inf" is not a finite number`},
+		{"1e999", `"1e999" is not a finite number`},
+	} {
+		_, err := ParseScenario([]byte("version: 1\nbase: normal\nparams:\n  heart_rate_bpm: "+c.val+"\n"), "s.yaml")
+		if err == nil || !strings.Contains(err.Error(), "s.yaml:4: params.heart_rate_bpm: "+c.want) || !strings.Contains(err.Error(), "30 to 180 bpm") {
+			t.Errorf("%s: %v", c.val, err)
+		}
+		_, perr := ParseNumber(c.val)
+		if perr == nil || !strings.Contains(perr.Error(), c.want) {
+			t.Errorf("ParseNumber(%s): %v", c.val, perr)
+		}
+	}
+	for _, ok := range []string{"80", "80.5", "+80", "8e1", "0.8E+2"} {
+		if _, err := ParseScenario([]byte("version: 1\nbase: normal\nparams:\n  heart_rate_bpm: "+ok+"\n"), "s.yaml"); err != nil {
+			t.Errorf("%s: %v", ok, err)
+		}
+	}
+}

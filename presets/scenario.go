@@ -245,14 +245,17 @@ func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (m
 	return p, nil
 }
 
-// scalarNumber reads a finite number from a YAML scalar.
+// scalarNumber reads a finite number from a YAML scalar. Whatever YAML
+// resolves a plain scalar to (0x10 is an integer, 0x1p3 and 1e999 text),
+// ParseNumber decides, as for --set; a quoted value is text.
 func scalarNumber(v *yaml.Node) (float64, error) {
 	switch {
 	case v.Kind == yaml.MappingNode:
 		return 0, errors.New("a mapping is not a number")
 	case v.Kind == yaml.SequenceNode:
 		return 0, errors.New("a list is not a number")
-	case v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float"):
+	case v.Kind != yaml.ScalarNode || v.Style&(yaml.DoubleQuotedStyle|yaml.SingleQuotedStyle|yaml.LiteralStyle|yaml.FoldedStyle) != 0 ||
+		v.Tag != "!!int" && v.Tag != "!!float" && v.Tag != "!!str":
 		return 0, fmt.Errorf("%s is not a number", QuoteShort(v.Value))
 	}
 	return ParseNumber(v.Value)

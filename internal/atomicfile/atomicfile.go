@@ -15,8 +15,10 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"strconv"
 	"syscall"
 )
 
@@ -58,14 +60,24 @@ func Create(path string) (*File, error) {
 	if dir == "" {
 		dir = "."
 	}
-	track() // before the file exists, so a signal cannot miss it
-	f, err := os.CreateTemp(dir, "."+base+".tmp-*")
-	if err != nil {
-		untrack("")
-		return nil, writeError(path, err)
+	track()
+	for range 100 {
+		// The name is recorded before the file exists, so a signal that
+		// comes as it is created removes it too.
+		tmp := filepath.Join(dir, "."+base+".tmp-"+strconv.FormatUint(rand.Uint64(), 36))
+		add(tmp)
+		f, err := os.OpenFile(tmp, os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o600)
+		if err == nil {
+			return &File{f: f, path: path, tmp: tmp}, nil
+		}
+		forget(tmp)
+		if !errors.Is(err, fs.ErrExist) {
+			untrack("")
+			return nil, writeError(path, err)
+		}
 	}
-	add(f.Name())
-	return &File{f: f, path: path, tmp: f.Name()}, nil
+	untrack("")
+	return nil, writeError(path, errors.New("no free temporary name"))
 }
 
 // Write writes to the temporary file.

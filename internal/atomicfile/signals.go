@@ -42,6 +42,13 @@ func add(tmp string) {
 	pending.Unlock()
 }
 
+// forget drops a temporary name that was not created.
+func forget(tmp string) {
+	pending.Lock()
+	delete(pending.files, tmp)
+	pending.Unlock()
+}
+
 // untrack forgets a temporary file (tmp may be "" when none was made) and,
 // after the last, stops watching the signals.
 func untrack(tmp string) {
