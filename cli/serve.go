@@ -37,8 +37,8 @@ fellow runs: ssh -p 2222 lab-host
 `
 
 func runServe(env *Env, args []string) error {
-	fs := newFlags(env, "serve", "serve --listen ADDR --host-key FILE --authorized-keys FILE --data DIR\n"+
-		"       [--max-sessions N] [--idle-timeout DUR] [--log FILE]",
+	fs := newFlags(env, "serve", "serve --listen ADDR --host-key FILE --authorized-keys FILE --data DIR "+
+		"[--max-sessions N] [--idle-timeout DUR] [--log FILE]",
 		"Serves the explorer over SSH: `ssh -p PORT lab-host` opens it, one explorer per session.\n"+
 			"Only keys in the authorized-keys file (OpenSSH's format) get in; each line names its fellow\n"+
 			"by a name=\"NAME\" option before the key, or by the key's comment (1-32 of a-z 0-9 . _ -).\n"+

@@ -153,6 +153,7 @@ type term struct {
 	errs bytes.Buffer
 	more chan struct{} // a signal after each read
 	from int           // waitFor looks at the output from here (mark)
+	read sync.WaitGroup // the copies of stdout and stderr
 }
 
 // mark makes waitFor look only at output written from now on.
@@ -185,6 +186,7 @@ func openTerm(t testing.TB, c *gossh.Client, termType string, w, h int, env ...s
 	}
 	stdout, _ := sess.StdoutPipe()
 	stderr, _ := sess.StderrPipe()
+	tm.read.Add(2)
 	go tm.copy(stdout, &tm.out)
 	go tm.copy(stderr, &tm.errs)
 	if err := sess.Shell(); err != nil {
@@ -195,6 +197,7 @@ func openTerm(t testing.TB, c *gossh.Client, termType string, w, h int, env ...s
 }
 
 func (tm *term) copy(r io.Reader, dst *bytes.Buffer) {
+	defer tm.read.Done()
 	buf := make([]byte, 32<<10)
 	for {
 		n, err := r.Read(buf)
@@ -268,7 +271,11 @@ func (tm *term) keys(s string) {
 func (tm *term) exit() int {
 	tm.t.Helper()
 	done := make(chan error, 1)
-	go func() { done <- tm.sess.Wait() }()
+	go func() {
+		err := tm.sess.Wait()
+		tm.read.Wait() // all the output is in
+		done <- err
+	}()
 	select {
 	case err := <-done:
 		var ee *gossh.ExitError
