@@ -151,8 +151,8 @@ type term struct {
 	mu   sync.Mutex
 	out  bytes.Buffer
 	errs bytes.Buffer
-	more chan struct{} // a signal after each read
-	from int           // waitFor looks at the output from here (mark)
+	more chan struct{}  // a signal after each read
+	from int            // waitFor looks at the output from here (mark)
 	read sync.WaitGroup // the copies of stdout and stderr
 }
 
