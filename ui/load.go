@@ -44,7 +44,6 @@ type loading struct {
 	path   string
 	prog   *safefile.Progress
 	cancel context.CancelFunc
-	start  time.Time
 }
 
 // loadedMsg is the result of load id.
@@ -75,7 +74,7 @@ func (m *Model) startLoadWith(l fileLoad, path string, open safefile.Opener) tea
 	m.stopLoad()
 	ctx, cancel := context.WithCancel(context.WithValue(context.Background(), tenantKey{}, m.tenant))
 	m.loads++
-	ld := &loading{id: m.loads, load: l, path: path, prog: &safefile.Progress{}, cancel: cancel, start: time.Now()}
+	ld := &loading{id: m.loads, load: l, path: path, prog: &safefile.Progress{}, cancel: cancel}
 	m.loading = ld
 	m.setStatus(m.loadStatus(ld))
 	work := func() tea.Msg {
