@@ -268,11 +268,11 @@ func fingerprint(k gossh.PublicKey) string {
 
 // clip shortens a string from a client for the log (which quotes it).
 func clip(s string) string {
-	s = strings.ToValidUTF8(s, "?")
-	if len(s) > 64 {
-		return s[:64] + "…"
+	r := []rune(strings.ToValidUTF8(s, "?"))
+	if len(r) > 64 {
+		return string(r[:64]) + "…"
 	}
-	return s
+	return string(r)
 }
 
 // addr is the text of a network address, "" for none.
