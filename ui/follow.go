@@ -43,6 +43,7 @@ func (m *Model) follow() tea.Cmd {
 func (m *Model) Close() {
 	m.closed = true
 	m.stopLoad()
+	m.tenant.Close()
 	for _, v := range m.views {
 		if c, ok := v.(closer); ok {
 			c.Close()

@@ -64,13 +64,19 @@ func (m *Model) SetOpener(open func(path string) (*os.File, error)) { m.opener =
 
 // startLoad reads path as l describes, replacing any load in progress.
 func (m *Model) startLoad(l fileLoad, path string) tea.Cmd {
+	return m.startLoadWith(l, path, m.opener)
+}
+
+// startLoadWith is startLoad with the file opened by open (nil:
+// safefile.Open). The model work of the load (solving a scenario) takes
+// its turn in the explorer's share of the pool (inPool).
+func (m *Model) startLoadWith(l fileLoad, path string, open safefile.Opener) tea.Cmd {
 	m.stopLoad()
-	ctx, cancel := context.WithCancel(context.Background())
+	ctx, cancel := context.WithCancel(context.WithValue(context.Background(), tenantKey{}, m.tenant))
 	m.loads++
 	ld := &loading{id: m.loads, load: l, path: path, prog: &safefile.Progress{}, cancel: cancel}
 	m.loading = ld
 	m.setStatus(m.loadStatus(ld))
-	open := m.opener
 	work := func() tea.Msg {
 		defer cancel()
 		f, err := safefile.OpenReader(ctx, open, path, ld.prog)

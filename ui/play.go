@@ -26,10 +26,13 @@ type playTickMsg struct{ run, seq int }
 // protocol that does not fit the levers (a step would leave a lever's
 // range) changes nothing and says where in the file.
 func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
-	r, err := newPlayRun(m.runs+1, pr, m.st.target)
-	if err == nil {
-		err = r.next()
-	}
+	var r *playRun
+	var err error
+	m.compute(func() {
+		if r, err = newPlayRun(m.runs+1, pr, m.st.target); err == nil {
+			err = r.next()
+		}
+	})
 	if err != nil {
 		m.setError(err.Error()) // it names the protocol file first
 		return nil
@@ -96,7 +99,8 @@ func (m *Model) advance() bool {
 	if v.cur+1 < len(r.beats) {
 		v.cur++
 	} else {
-		err := r.next()
+		var err error
+		m.compute(func() { err = r.next() })
 		switch {
 		case errors.Is(err, io.EOF):
 			m.setStatus(m.endText())

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path"
 	"path/filepath"
 	"strings"
 
@@ -50,6 +51,10 @@ var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens",
 
 // openPrompt asks for a path to save to, open from, play or overlay.
 func (m *Model) openPrompt(kind promptKind) tea.Cmd {
+	if m.folders != nil && kind != promptSave {
+		m.openFiles(promptFiles[kind]) // a list of the session's files instead
+		return nil
+	}
 	m.promptFor = kind
 	m.prompt.Reset()
 	switch kind {
@@ -58,6 +63,10 @@ func (m *Model) openPrompt(kind promptKind) tea.Cmd {
 		v := m.lastPath
 		if v == "" {
 			v = m.st.name + ".yaml"
+		}
+		if m.folders != nil {
+			m.prompt.Prompt = "Save scenario in your folder as: "
+			v = path.Base(v)
 		}
 		m.prompt.SetValue(v)
 	case promptOpen:
@@ -88,7 +97,10 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 	case key.Matches(msg, m.keys.Confirm):
 		m.mode = modeMain
 		m.prompt.Blur()
-		path := expandHome(strings.TrimSpace(m.prompt.Value()))
+		path := strings.TrimSpace(m.prompt.Value())
+		if m.folders == nil {
+			path = expandHome(path)
+		}
 		if path == "" {
 			m.setError("No path given: nothing saved or opened.")
 			return nil
@@ -124,12 +136,27 @@ func (m *Model) confirmKey(msg tea.KeyMsg) tea.Cmd {
 	return nil
 }
 
-// save writes the levers and the baseline to path as a scenario. An
-// existing file is replaced only after the user confirms.
+// save writes the levers and the baseline to path as a scenario (in a lab
+// server's session, to that name in the fellow's folder). An existing file
+// is replaced only after the user confirms.
 func (m *Model) save(path string, force bool) {
+	if m.folders != nil {
+		m.saveInFolder(path, force)
+		return
+	}
+	sc := m.toSave(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)))
+	if dir := filepath.Dir(path); !isDir(dir) {
+		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
+		return
+	}
+	m.saved(path, path, presets.SaveScenario(path, sc, force))
+}
+
+// toSave is the scenario that s saves as name: the levers and the baseline.
+func (m *Model) toSave(name string) *presets.Scenario {
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
-		Name:        safetext.Line(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))),
+		Name:        safetext.Line(name),
 		Description: "Saved from pvcouple explore, started from " + safetext.Line(m.st.origin),
 		Params:      m.st.target,
 	}
@@ -137,21 +164,22 @@ func (m *Model) save(path string, force bool) {
 		b := m.st.base.Params
 		sc.Baseline = &b
 	}
-	if dir := filepath.Dir(path); !isDir(dir) {
-		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
-		return
-	}
-	err := presets.SaveScenario(path, sc, force)
+	return sc
+}
+
+// saved reports a save to name (as typed) shown as where: an existing file
+// asks whether to overwrite it.
+func (m *Model) saved(name, where string, err error) {
 	switch {
 	case errors.Is(err, presets.ErrExists):
-		m.confirm = path
+		m.confirm = name
 		m.mode = modeConfirm
-		m.setError(path + " exists. Overwrite it? y overwrites, any other key keeps it.")
+		m.setError(where + " exists. Overwrite it? y overwrites, any other key keeps it.")
 	case err != nil:
 		m.setError("Not saved: " + err.Error())
 	default:
-		m.lastPath = path
-		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", path))
+		m.lastPath = where
+		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", where))
 	}
 }
 
@@ -160,12 +188,15 @@ func (m *Model) save(path string, force bool) {
 var scenarioLoad = fileLoad{
 	what: "scenario",
 	then: "Solving",
-	read: func(_ context.Context, f *safefile.File, path string) (any, error) {
+	read: func(ctx context.Context, f *safefile.File, path string) (any, error) {
 		sc, err := presets.ReadScenario(f, path)
 		if err != nil {
 			return nil, err
 		}
-		cur, base, err := solveScenario(model.NewSolver(), sc, path)
+		var cur, base *model.Steady
+		if perr := inPool(ctx, func() { cur, base, err = solveScenario(model.NewSolver(), sc, path) }); perr != nil {
+			return nil, perr
+		}
 		if err != nil {
 			return nil, err
 		}

@@ -61,6 +61,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return m.confirmKey(msg)
 	case modeProtocols:
 		return m.protocolsKey(msg)
+	case modeFiles:
+		return m.filesKey(msg)
 	}
 	k := m.keys
 	switch {
@@ -211,6 +213,7 @@ func (m *Model) revert() {
 	m.st.target, m.st.shown = m.st.base.Params, m.st.base
 	m.gen++
 	m.floor, m.pending = m.gen, ""
+	m.want.drop()
 	m.setStatus("Back to the baseline.")
 }
 
