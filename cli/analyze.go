@@ -5,6 +5,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 )
@@ -64,7 +65,7 @@ func analysisObject(path string, a *analysis.Analysis) object {
 	beats := make([]object, 0, len(a.Beats))
 	for _, b := range a.Beats {
 		row := object{
-			{"beat", b.Index}, {"start_s", number(b.Start)}, {"end_s", number(b.End)},
+			{"beat", b.Index}, {"start_s", number(seconds(b.Start))}, {"end_s", number(seconds(b.End))},
 			{"kept", b.Kept()}, {"drop_reason", nullable(b.Dropped)},
 		}
 		beats = append(beats, append(row, metricsObject(&b.Metrics)...))
@@ -88,7 +89,7 @@ func analysisObject(path string, a *analysis.Analysis) object {
 			{"rows", r.Rows},
 			{"samples", len(r.T)},
 			{"sample_rate_hz", number(r.Rate)},
-			{"duration_s", number(r.Duration())},
+			{"duration_s", number(seconds(r.Duration()))},
 			{"columns", object{{"time", nullable(r.Columns.Time)}, {"pressure", r.Columns.Pressure},
 				{"volume", r.Columns.Volume}, {"aortic", nullable(r.Columns.Aortic)}}},
 			{"units_read", object{{"time", r.Columns.TimeUnit}, {"pressure", r.Columns.PressureUnit}, {"volume", r.Columns.VolumeUnit}}},
@@ -170,8 +171,8 @@ var analyzeColumns = []string{"edv_ml", "esv_ml", "sv_ml", "ef_pct", "edp_mmhg",
 
 func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 	r := a.Recording
-	w := env.Stdout
-	fmt.Fprintf(w, "Recording %s: %d samples at %.4g Hz over %.2f s; columns %q, %q, %q", path, len(r.T), r.Rate,
+	w := newStdout(env)
+	fmt.Fprintf(w, "Recording %s: %d samples at %.4g Hz over %.2f s; columns %q, %q, %q", safetext.Line(path), len(r.T), r.Rate,
 		r.Duration(), r.Columns.Time, r.Columns.Pressure, r.Columns.Volume)
 	if r.Columns.Aortic != "" {
 		fmt.Fprintf(w, ", aortic %q", r.Columns.Aortic)
@@ -195,7 +196,7 @@ func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 		}
 		status := "kept"
 		if !b.Kept() {
-			status = "dropped: " + b.Dropped
+			status = "dropped: " + safetext.Line(b.Dropped)
 		}
 		fmt.Fprintln(tw, strings.Join(row, "\t")+"\t\t"+status)
 	}
@@ -219,12 +220,12 @@ func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 		if c := sb.Chen; c != nil {
 			fmt.Fprintf(w, "  Ees(sb) %s mmHg/mL (Chen et al. 2001; ENd(est) %.3f)\n", formatValue(c.Ees), c.ENdEst)
 		} else {
-			fmt.Fprintf(w, "  Ees(sb): %s\n", sb.ChenErr)
+			fmt.Fprintf(w, "  Ees(sb): %s\n", safetext.Line(sb.ChenErr))
 		}
 		if k := sb.Klotz; k != nil {
 			fmt.Fprintf(w, "  EDPVR P = %.4g·V^%.4g (Klotz et al. 2006; V0 %.1f mL, V30 %.1f mL)\n", k.Alpha, k.Beta, k.V0, k.V30)
 		} else {
-			fmt.Fprintf(w, "  EDPVR (Klotz): %s\n", sb.KlotzErr)
+			fmt.Fprintf(w, "  EDPVR (Klotz): %s\n", safetext.Line(sb.KlotzErr))
 		}
 	}
 	if len(a.Steady) > 0 {
@@ -237,12 +238,12 @@ func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 		fmt.Fprintf(w, "Steady beats (median of %d): %s\n", len(a.Steady), strings.Join(parts, ", "))
 	}
 	for _, n := range a.Notes {
-		fmt.Fprintf(w, "Note: %s\n", n)
+		fmt.Fprintf(w, "Note: %s\n", safetext.Line(n))
 	}
 	for _, x := range a.Warnings {
-		fmt.Fprintf(w, "Warning: %s\n", x)
+		fmt.Fprintf(w, "Warning: %s\n", safetext.Line(x))
 	}
-	return nil
+	return flushStdout(w)
 }
 
 func sourceText(s string) string {

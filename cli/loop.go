@@ -67,6 +67,9 @@ func runLoop(env *Env, args []string) error {
 		for i, c := range columns {
 			col := make([]number, len(series[i]))
 			for j, v := range series[i] {
+				if i == 0 {
+					v = seconds(v)
+				}
 				col[j] = number(v)
 			}
 			samples = append(samples, field{c, col})
@@ -75,23 +78,24 @@ func runLoop(env *Env, args []string) error {
 			{"scenario", sc.Name},
 			{"circulation", sc.Params.Circulation.String()},
 			{"params", paramsObject(st.Settled())},
-			{"period_s", number(st.Period)},
+			{"period_s", number(seconds(st.Period))},
 			{"samples", samples},
 		})
 	}
 	w := csv.NewWriter(env.Stdout)
 	if err := w.Write(columns); err != nil {
-		return err
+		return outputErr(err)
 	}
 	row := make([]string, len(series))
 	for j := range series[0] {
 		for i := range series {
 			row[i] = formatCSV(series[i][j])
 		}
+		row[0] = formatCSV(seconds(series[0][j]))
 		if err := w.Write(row); err != nil {
-			return err
+			return outputErr(err)
 		}
 	}
 	w.Flush()
-	return w.Error()
+	return outputErr(w.Error())
 }

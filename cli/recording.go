@@ -1,6 +1,9 @@
 package cli
 
 import (
+	"fmt"
+
+	"pvcouple/internal/safefile"
 	"pvcouple/model/analysis"
 )
 
@@ -28,15 +31,31 @@ func (r *recordingFlags) addFlags(fs *flagSet) {
 	fs.StringVar(&r.espvr, "espvr", "linear", "ESPVR `FORM`: linear or quadratic")
 }
 
-// analyze reads and analyses the recording at path.
-func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
+// check refuses bad options as usage errors, before any file is read.
+func (r *recordingFlags) check() error {
 	if err := choice("espvr", r.espvr, "linear", "quadratic"); err != nil {
-		return nil, err
+		return err
 	}
 	if !(r.smoothMS >= 2 && r.smoothMS <= 100) {
-		return nil, usagef("--smooth-ms %g: allowed 2 to 100 ms", r.smoothMS)
+		return usagef("--smooth-ms %g: allowed 2 to 100 ms", r.smoothMS)
 	}
-	rec, err := analysis.LoadCSV(path, r.read)
+	if err := r.read.Check(); err != nil {
+		return usagef("%v", err)
+	}
+	return nil
+}
+
+// analyze reads and analyses the recording at path.
+func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
+	if err := r.check(); err != nil {
+		return nil, err
+	}
+	f, err := safefile.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("cannot read recording: %w", err)
+	}
+	defer f.Close()
+	rec, err := analysis.ReadCSV(f, path, r.read)
 	if err != nil {
 		return nil, err
 	}

@@ -2,7 +2,6 @@ package cli
 
 import (
 	"fmt"
-	"math"
 	"strconv"
 	"strings"
 
@@ -13,27 +12,64 @@ import (
 // selection is the --preset / --scenario / --set choice of a parameter set
 // shared by the commands that solve the model.
 type selection struct {
-	preset      string
-	scenario    string
-	sets        listFlag
+	preset   string
+	scenario string
+	sets     listFlag
+	// circulation is --circulation: "" for the scenario's own.
 	circulation string
+	// given records whether --preset and --scenario were given at all, so
+	// that an empty value is an error rather than the default.
+	given map[string]bool
 }
 
 func (s *selection) addFlags(fs *flagSet) {
+	s.given = map[string]bool{}
 	fs.StringVar(&s.circulation, "circulation", "", "`MODE`: held (filling pressure held) or closed (blood volume conserved); default: the scenario's, else "+model.DefaultCirculation.String())
-	fs.StringVar(&s.preset, "preset", "", "built-in preset `NAME` (default "+presets.Default+"; see `pvcouple presets`)")
-	fs.StringVar(&s.scenario, "scenario", "", "scenario `FILE` (YAML)")
-	fs.Var(&s.sets, "set", "override one parameter, `KEY=VALUE` (repeatable; see `pvcouple params`)")
+	fs.Var(givenString{&s.preset, s.given, "preset"}, "preset", "built-in preset `NAME` (default "+presets.Default+"; see `pvcouple presets`)")
+	fs.Var(givenString{&s.scenario, s.given, "scenario"}, "scenario", "scenario `FILE` (YAML)")
+	fs.Var(&s.sets, "set", "override one parameter, `KEY=VALUE` (repeatable, each key once; see `pvcouple params`)")
 }
 
-// resolve returns the scenario the flags select, with the --set overrides
-// applied to its parameters.
+// givenString is a string flag that records that it was given.
+type givenString struct {
+	p     *string
+	given map[string]bool
+	name  string
+}
+
+func (g givenString) String() string {
+	if g.p == nil {
+		return ""
+	}
+	return *g.p
+}
+
+func (g givenString) Set(v string) error {
+	*g.p = v
+	g.given[g.name] = true
+	return nil
+}
+
+// resolve returns the scenario the flags select in the circulation asked for,
+// with the --set overrides applied to its parameters. In a closed
+// circulation the stressed volume stays as it is unless set, so the levers
+// act on a fixed blood volume; a filling pressure set there is a fluid
+// challenge: volume is given or removed until the mean LAP is that pressure.
 func (s *selection) resolve() (*presets.Scenario, error) {
+	if s.given["preset"] && strings.TrimSpace(s.preset) == "" {
+		return nil, usagef("--preset is empty; give a preset name (see `pvcouple presets`)")
+	}
+	if s.given["scenario"] && strings.TrimSpace(s.scenario) == "" {
+		return nil, usagef("--scenario is empty; give a scenario FILE")
+	}
 	if s.preset != "" && s.scenario != "" {
 		return nil, usagef("give --preset or --scenario, not both")
 	}
+	sets, err := parseSets(s.sets)
+	if err != nil {
+		return nil, err
+	}
 	var sc *presets.Scenario
-	var err error
 	if s.scenario != "" {
 		sc, err = presets.LoadScenario(s.scenario)
 	} else {
@@ -41,7 +77,9 @@ func (s *selection) resolve() (*presets.Scenario, error) {
 		if name == "" {
 			name = presets.Default
 		}
-		sc, err = presets.Get(name)
+		if sc, err = presets.Get(name); err != nil {
+			return nil, usagef("--preset: %v", err)
+		}
 	}
 	if err != nil {
 		return nil, err
@@ -55,7 +93,7 @@ func (s *selection) resolve() (*presets.Scenario, error) {
 			return nil, err
 		}
 	}
-	p, err := applySets(sc.Params, s.sets)
+	p, err := applySets(sc.Params, sets)
 	if err != nil {
 		return nil, err
 	}
@@ -63,39 +101,18 @@ func (s *selection) resolve() (*presets.Scenario, error) {
 	return sc, nil
 }
 
-// applySets applies KEY=VALUE overrides to p and validates the result. In a
-// closed circulation the stressed volume stays as it is unless set, so the
-// levers act on a fixed blood volume; a filling pressure set there is a fluid
-// challenge: volume is given or removed until the mean LAP is that pressure.
-func applySets(p model.Params, sets []string) (model.Params, error) {
+// applySets applies checked --set overrides to p in its circulation and
+// validates the result.
+func applySets(p model.Params, sets []setting) (model.Params, error) {
 	fillSet, volumeSet := false, false
-	for _, kv := range sets {
-		key, val, ok := strings.Cut(kv, "=")
-		key, val = strings.TrimSpace(key), strings.TrimSpace(val)
-		if !ok || key == "" {
-			return p, usagef("--set %q: expected KEY=VALUE, e.g. --set heart_rate_bpm=90", kv)
-		}
-		spec, found := model.SpecByKey(key)
-		if !found {
-			return p, usagef("--set %s: unknown parameter; known: %s", key, strings.Join(model.Keys(), ", "))
-		}
-		v, err := strconv.ParseFloat(val, 64)
-		if err != nil {
-			return p, usagef("--set %s=%s: %q is not a number; %s", key, val, val, spec.RangeText())
-		}
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return p, usagef("--set %s=%s: not a finite number; %s", key, val, spec.RangeText())
-		}
-		if err := spec.Check(v); err != nil {
-			return p, usagef("--set %v", err)
-		}
-		if !spec.ActsIn(p.Circulation) {
+	for _, st := range sets {
+		if !st.spec.ActsIn(p.Circulation) {
 			return p, usagef("--set %s: acts only in the %s circulation, and this one is %s (add --circulation %s)",
-				key, spec.Circulations(), p.Circulation, spec.Circulations())
+				st.spec.Key, st.spec.Circulations(), p.Circulation, st.spec.Circulations())
 		}
-		fillSet = fillSet || key == "filling_pressure_mmhg"
-		volumeSet = volumeSet || key == "stressed_volume_ml"
-		spec.Set(&p, v)
+		fillSet = fillSet || st.spec.Key == "filling_pressure_mmhg"
+		volumeSet = volumeSet || st.spec.Key == "stressed_volume_ml"
+		st.spec.Set(&p, st.value)
 	}
 	if fillSet && volumeSet && p.Circulation == model.Closed {
 		return p, usagef("--set filling_pressure_mmhg and --set stressed_volume_ml both set the closed circulation's volume; give one")
@@ -111,4 +128,47 @@ func applySets(p model.Params, sets []string) (model.Params, error) {
 		p = q
 	}
 	return p, nil
+}
+
+// setting is one --set KEY=VALUE, checked.
+type setting struct {
+	spec  model.Spec
+	value float64
+}
+
+// String is the setting as KEY=VALUE, the value in its shortest exact form.
+func (s setting) String() string {
+	return s.spec.Key + "=" + strconv.FormatFloat(s.value, 'g', -1, 64)
+}
+
+// parseSets checks --set KEY=VALUE overrides: a known key, each once, and a
+// finite decimal number in the key's range. A value is echoed at most once
+// in a message, cut short.
+func parseSets(sets []string) ([]setting, error) {
+	var out []setting
+	seen := map[string]string{}
+	for _, kv := range sets {
+		key, val, ok := strings.Cut(kv, "=")
+		key, val = strings.TrimSpace(key), strings.TrimSpace(val)
+		if !ok || key == "" {
+			return nil, usagef("--set %s: expected KEY=VALUE, e.g. --set heart_rate_bpm=90", presets.QuoteShort(kv))
+		}
+		spec, found := model.SpecByKey(key)
+		if !found {
+			return nil, usagef("--set %s: unknown parameter; known: %s", presets.QuoteShort(key), strings.Join(model.Keys(), ", "))
+		}
+		if prev, dup := seen[key]; dup {
+			return nil, usagef("--set %s is given twice (%s and %s); give each key once", key, presets.QuoteShort(prev), presets.QuoteShort(val))
+		}
+		seen[key] = val
+		v, err := presets.ParseNumber(val)
+		if err != nil {
+			return nil, usagef("--set %s: %v; %s", key, err, spec.RangeText())
+		}
+		if err := spec.Check(v); err != nil {
+			return nil, usagef("--set %v", err)
+		}
+		out = append(out, setting{spec, v})
+	}
+	return out, nil
 }

@@ -2,6 +2,7 @@ package presets
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"pvcouple/model"
@@ -14,23 +15,39 @@ import (
 // of the occlusion beats) and starts from V0 = 0, not from the answer. In a
 // pure elastance model the end-systolic points lie on P = Ees·(V − V0)
 // [derived, docs/science.md §6], so anything beyond sampling error is a fault of
-// the run or of the fit.
+// the run or of the fit. Both circulations: a held filling pressure that
+// falls, and a caval occlusion in the closed one.
 func TestPreloadReductionRecoversESPVR(t *testing.T) {
 	pr, err := GetProtocol("preload-reduction")
 	if err != nil {
 		t.Fatal(err)
 	}
+	for _, c := range []model.Circulation{model.Held, model.Closed} {
+		for _, name := range Names() {
+			sc, _ := Get(name)
+			if err := sc.SetCirculation(c); err != nil {
+				t.Fatal(err)
+			}
+			recoverESPVR(t, pr, sc)
+		}
+	}
+}
+
+// recoverESPVR runs the protocol on sc and fits the ESPVR to its occlusion
+// beats.
+func recoverESPVR(t *testing.T, pr *Protocol, sc *Scenario) {
+	t.Helper()
+	name := sc.Name + " " + sc.Params.Circulation.String()
 	occlusion := -1
 	for j, s := range pr.Steps {
-		if s.Label == "occlusion" {
+		if strings.HasSuffix(s.Label, "occlusion") && s.RunsIn(sc.Params.Circulation) {
 			occlusion = j
 		}
 	}
 	if occlusion < 0 {
-		t.Fatal("preload-reduction has no occlusion step")
+		t.Fatalf("preload-reduction has no occlusion step in the %s circulation", sc.Params.Circulation)
 	}
-	for _, name := range Names() {
-		sc, _ := Get(name)
+	{
 		pl, err := pr.Expand(sc.Params)
 		if err != nil {
 			t.Fatal(err)
@@ -68,7 +85,7 @@ func TestPreloadReductionRecoversESPVR(t *testing.T) {
 		if e := math.Abs(fit.V0-v0) / math.Max(math.Abs(v0), 1); e > 0.03 {
 			t.Errorf("%s: fitted V0 %.3f mL, model %.3f mL", name, fit.V0, v0)
 		}
-		t.Logf("%-12s Ees %.5f (model %.3g)  V0 %.4f mL (model %.3g)  R² %.8f  %d loops, %d iterations",
+		t.Logf("%-20s Ees %.5f (model %.3g)  V0 %.4f mL (model %.3g)  R² %.8f  %d loops, %d iterations",
 			name, fit.Ees, ees, fit.V0, v0, fit.R2, fit.Beats, fit.Iterations)
 	}
 }

@@ -4,11 +4,13 @@ import (
 	"errors"
 	"strings"
 	"testing"
+
+	"pvcouple/model"
 )
 
 // The schedule of a protocol that uses every step kind, against values
-// computed by hand from the normal preset (FP 10 mmHg, R 0.85, HR 70, Ees 2.5,
-// C 1.5). A ramp over N beats moves k/N of the way on its k-th beat; a factor
+// computed by hand from the normal preset in the held circulation (FP 8 mmHg,
+// R 0.85, HR 70, Ees 2.5, C 1.5). A ramp over N beats moves k/N of the way on its k-th beat; a factor
 // applies to the value at the step's start, `initial` to the run's start.
 func TestExpandMatchesHandComputedSchedule(t *testing.T) {
 	doc := protoHead + `  - {label: rest, hold: 2}
@@ -31,27 +33,27 @@ func TestExpandMatchesHandComputedSchedule(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sc, _ := Get("normal")
+	sc := heldPreset(t, "normal")
 	pl, err := pr.Expand(sc.Params)
 	if err != nil {
 		t.Fatal(err)
 	}
 	//            FP    R     HR  Ees  C     step
 	want := [][6]float64{
-		{10, 0.85, 70, 2.5, 1.5, 0},
-		{10, 0.85, 70, 2.5, 1.5, 0},
-		{8.5, 0.85, 70, 2.5, 1.5, 1},
-		{7, 0.85, 70, 2.5, 1.5, 1},
-		{5.5, 0.85, 70, 2.5, 1.5, 1},
-		{4, 0.85, 70, 2.5, 1.5, 1},
-		{8, 1.7, 70, 2.5, 1.5, 2},
-		{8, 1.7, 70, 2.5, 1.5, 2},
-		{10, 1.7, 90, 2.5, 1.5, 3},
-		{10, 1.7, 80, 2.5, 1.5, 4},
-		{10, 1.7, 70, 2.5, 1.5, 4},
-		{10, 1.7, 70, 3, 1.25, 5},
-		{10, 1.7, 70, 3.5, 1, 5},
-		{10, 1.7, 70, 4, 0.75, 5},
+		{8, 0.85, 70, 2.5, 1.5, 0},
+		{8, 0.85, 70, 2.5, 1.5, 0},
+		{6.8, 0.85, 70, 2.5, 1.5, 1},
+		{5.6, 0.85, 70, 2.5, 1.5, 1},
+		{4.4, 0.85, 70, 2.5, 1.5, 1},
+		{3.2, 0.85, 70, 2.5, 1.5, 1},
+		{6.4, 1.7, 70, 2.5, 1.5, 2},
+		{6.4, 1.7, 70, 2.5, 1.5, 2},
+		{8, 1.7, 90, 2.5, 1.5, 3},
+		{8, 1.7, 80, 2.5, 1.5, 4},
+		{8, 1.7, 70, 2.5, 1.5, 4},
+		{8, 1.7, 70, 3, 1.25, 5},
+		{8, 1.7, 70, 3.5, 1, 5},
+		{8, 1.7, 70, 4, 0.75, 5},
 	}
 	if len(pl.Params) != len(want) || len(pl.Steps) != len(want) {
 		t.Fatalf("%d beats planned, want %d", len(pl.Params), len(want))
@@ -84,17 +86,19 @@ func TestExpandMatchesHandComputedSchedule(t *testing.T) {
 }
 
 func TestExpandRefusesLeversOutOfRange(t *testing.T) {
-	sc, _ := Get("normal")
+	sc := heldPreset(t, "normal")
 	cases := []struct {
 		doc  string
 		want []string
 	}{
 		{"  - label: occlude\n    ramp: {filling_pressure_mmhg: {factor: 0.05}}\n    beats: 3\n",
-			[]string{"p.yaml:5", "steps[1].ramp.filling_pressure_mmhg", "from filling_pressure_mmhg = 10", "= 0.5", "allowed 1 to 40 mmHg"}},
+			[]string{"p.yaml:5", "steps[1].ramp.filling_pressure_mmhg", "from filling_pressure_mmhg = 8", "= 0.4", "allowed 1 to 40 mmHg"}},
 		{"  - {label: a, hold: 1}\n  - label: up\n    scale: {heart_rate_bpm: 3}\n",
 			[]string{"p.yaml:6", "steps[2].scale.heart_rate_bpm", "heart_rate_bpm = 210", "30 to 180 bpm"}},
 		{"  - label: stiff\n    ramp: {filling_pressure_mmhg: 1, edpvr_a_mmhg: 5}\n    beats: 3\n",
 			[]string{"p.yaml:4", "steps[1]", `step "stiff", beat 3 of the run`, "fill only", "mL"}},
+		{"  - label: occlude\n    ramp: {caval_occlusion_pct: 80}\n    beats: 3\n",
+			[]string{"p.yaml:5", "steps[1].ramp.caval_occlusion_pct", "acts only in the closed circulation", "circulation: closed"}},
 	}
 	for _, c := range cases {
 		pr, err := ParseProtocol([]byte(protoHead+c.doc), "p.yaml")
@@ -113,10 +117,30 @@ func TestExpandRefusesLeversOutOfRange(t *testing.T) {
 			}
 		}
 	}
-	pr, _ := GetProtocol("preload-reduction")
+	// A closed run does not hold the filling pressure: the step must say it is for held runs.
+	closed, _ := Get("normal")
+	pr, _ := ParseProtocol([]byte(protoHead+"  - label: fall\n    ramp: {filling_pressure_mmhg: 5}\n    beats: 3\n"), "p.yaml")
+	if _, err := pr.Expand(closed.Params); err == nil || !strings.Contains(err.Error(), "p.yaml:5") ||
+		!strings.Contains(err.Error(), "caval_occlusion_pct") || !strings.Contains(err.Error(), "circulation: held") {
+		t.Errorf("filling pressure in a closed run: %v", err)
+	}
+	pr, _ = GetProtocol("preload-reduction")
 	bad := sc.Params
 	bad.HeartRate = 500
 	if _, err := pr.Expand(bad); err == nil || !strings.Contains(err.Error(), "heart_rate_bpm = 500") {
 		t.Errorf("invalid starting parameters: %v", err)
 	}
+}
+
+// heldPreset returns a built-in preset moved to the held circulation.
+func heldPreset(t *testing.T, name string) *Scenario {
+	t.Helper()
+	sc, err := Get(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := sc.SetCirculation(model.Held); err != nil {
+		t.Fatal(err)
+	}
+	return sc
 }

@@ -12,6 +12,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
@@ -43,13 +44,17 @@ func (s *Scenario) BaselineOrParams() model.Params {
 
 // SetCirculation moves the scenario (and its baseline) to circulation c. Into
 // a closed one, a scenario whose file did not give a stressed volume has its
-// volume calibrated to its filling pressure, as when it was loaded.
+// volume calibrated to its filling pressure, as when it was loaded; into a
+// held one, the stressed volume is dropped.
 func (s *Scenario) SetCirculation(c model.Circulation) error {
 	set := func(p *model.Params) error {
 		if p.Circulation == c {
 			return nil
 		}
 		p.Circulation = c
+		if c == model.Held {
+			p.StressedVolume = 0 // a held circulation has none
+		}
 		if c != model.Closed || s.VolumeGiven && p.StressedVolume > 0 {
 			return p.Validate()
 		}
@@ -77,18 +82,21 @@ type FileError struct {
 	Msg  string
 }
 
+// Error names the place and says what is wrong, on one line; whatever came
+// from the file (a key, a value) is escaped so that it cannot act on a
+// terminal.
 func (e *FileError) Error() string {
 	var b strings.Builder
-	b.WriteString(e.File)
+	b.WriteString(safetext.Line(e.File))
 	if e.Line > 0 {
 		fmt.Fprintf(&b, ":%d", e.Line)
 	}
 	b.WriteString(": ")
 	if e.Key != "" {
-		b.WriteString(e.Key)
+		b.WriteString(safetext.Line(e.Key))
 		b.WriteString(": ")
 	}
-	b.WriteString(e.Msg)
+	b.WriteString(safetext.Line(e.Msg))
 	return b.String()
 }
 
@@ -99,6 +107,16 @@ func LoadScenario(path string) (*Scenario, error) {
 		return nil, err
 	}
 	return ParseScenario(data, path)
+}
+
+// ReadScenario reads a scenario from r (at most MaxFileSize bytes) and
+// strictly checks it; name labels errors.
+func ReadScenario(r io.Reader, name string) (*Scenario, error) {
+	data, err := readAllCapped(r, name, "scenario")
+	if err != nil {
+		return nil, err
+	}
+	return ParseScenario(data, name)
 }
 
 // ParseScenario strictly decodes a scenario; name labels errors (a file name).
@@ -136,6 +154,9 @@ func ParseScenario(data []byte, name string) (*Scenario, error) {
 		case "name", "description", "notes", "base":
 			if v.Kind != yaml.ScalarNode || v.Tag != "!!str" && v.Tag != "!!null" {
 				return nil, fe(v, k.Value, "must be text")
+			}
+			if err := checkText(k.Value, v.Value); err != nil {
+				return nil, fe(v, k.Value, "%v", err)
 			}
 			switch k.Value {
 			case "name":
@@ -375,19 +396,18 @@ func decodeParamValues(n *yaml.Node, path string, base *model.Params, file strin
 	return p, seen, nil
 }
 
-// scalarNumber reads a finite number from a YAML scalar.
+// scalarNumber reads a finite number from a YAML scalar. Whatever YAML
+// resolves a plain scalar to (0x10 is an integer, 0x1p3 and 1e999 text),
+// ParseNumber decides, as for --set; a quoted value is text.
 func scalarNumber(v *yaml.Node) (float64, error) {
 	switch {
 	case v.Kind == yaml.MappingNode:
 		return 0, errors.New("a mapping is not a number")
 	case v.Kind == yaml.SequenceNode:
 		return 0, errors.New("a list is not a number")
-	case v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float"):
-		return 0, fmt.Errorf("%q is not a number", v.Value)
+	case v.Kind != yaml.ScalarNode || v.Style&(yaml.DoubleQuotedStyle|yaml.SingleQuotedStyle|yaml.LiteralStyle|yaml.FoldedStyle) != 0 ||
+		v.Tag != "!!int" && v.Tag != "!!float" && v.Tag != "!!str":
+		return 0, fmt.Errorf("%s is not a number", QuoteShort(v.Value))
 	}
-	x, err := strconv.ParseFloat(strings.ReplaceAll(v.Value, "_", ""), 64)
-	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, fmt.Errorf("%q is not a finite number", v.Value)
-	}
-	return x, nil
+	return ParseNumber(v.Value)
 }

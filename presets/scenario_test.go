@@ -2,6 +2,7 @@ package presets
 
 import (
 	"errors"
+	"math"
 	"strconv"
 	"strings"
 	"testing"
@@ -45,8 +46,14 @@ func TestBaseFillsMissingKeys(t *testing.T) {
 	hf, _ := Get("hfref")
 	want := hf.Params
 	want.HeartRate = 100
-	if sc.Params != want {
-		t.Errorf("params %+v, want hfref with heart rate 100", sc.Params)
+	// The stressed volume is calibrated again for the new rate: the mean LAP
+	// stays the filling pressure.
+	want.StressedVolume = sc.Params.StressedVolume
+	if sc.Params != want || sc.Params.StressedVolume == hf.Params.StressedVolume {
+		t.Errorf("params %+v, want hfref with heart rate 100 and its volume calibrated again", sc.Params)
+	}
+	if st, err := model.NewSolver().SteadyState(sc.Params, nil); err != nil || math.Abs(st.Metrics.LAPMean-want.FillingPressure) > 1e-3 {
+		t.Errorf("mean LAP %v, want the filling pressure %g (%v)", st.Metrics.LAPMean, want.FillingPressure, err)
 	}
 	if sc.Baseline == nil || sc.Baseline.HeartRate != 80 || sc.Baseline.Ees != hf.Params.Ees {
 		t.Errorf("baseline %+v", sc.Baseline)
