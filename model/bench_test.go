@@ -16,9 +16,10 @@ func normalParams(tb testing.TB) model.Params {
 	return sc.Params
 }
 
-// BenchmarkSteadyStateCold solves the default preset from nothing (target ≤ 2 ms).
+// BenchmarkSteadyStateCold solves the default preset in the held circulation
+// from nothing (target ≤ 2 ms).
 func BenchmarkSteadyStateCold(b *testing.B) {
-	p := normalParams(b)
+	p := inCirculation(b, "normal", model.Held)
 	s := model.NewSolver()
 	b.ReportAllocs()
 	beats := 0
@@ -32,10 +33,11 @@ func BenchmarkSteadyStateCold(b *testing.B) {
 	b.ReportMetric(float64(beats), "beats")
 }
 
-// BenchmarkSteadyStateWarm re-solves after a 5 % nudge of the filling pressure,
-// starting from the previous steady state (target ≤ 0.5 ms).
+// BenchmarkSteadyStateWarm re-solves the held default preset after a 5 % nudge
+// of the filling pressure, starting from the previous steady state (target ≤
+// 0.5 ms).
 func BenchmarkSteadyStateWarm(b *testing.B) {
-	p := normalParams(b)
+	p := inCirculation(b, "normal", model.Held)
 	s := model.NewSolver()
 	base, err := s.SteadyState(p, nil)
 	if err != nil {
@@ -55,11 +57,44 @@ func BenchmarkSteadyStateWarm(b *testing.B) {
 	b.ReportMetric(float64(beats), "beats")
 }
 
-func preset(tb testing.TB, name string) model.Params {
-	tb.Helper()
-	sc, err := presets.Get(name)
-	if err != nil {
-		tb.Fatal(err)
+// BenchmarkSteadyStateClosedCold solves the default preset in the closed
+// circulation, at the stressed volume calibrated when it was loaded, from
+// nothing.
+func BenchmarkSteadyStateClosedCold(b *testing.B) {
+	p := inCirculation(b, "normal", model.Closed)
+	s := model.NewSolver()
+	b.ReportAllocs()
+	beats := 0
+	for b.Loop() {
+		st, err := s.SteadyState(p, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		beats = st.Beats
 	}
-	return sc.Params
+	b.ReportMetric(float64(beats), "beats")
+}
+
+// BenchmarkSteadyStateClosedWarm re-solves the closed default preset after a
+// 5 % nudge of its stressed volume (its preload), starting from the previous
+// steady state.
+func BenchmarkSteadyStateClosedWarm(b *testing.B) {
+	p := inCirculation(b, "normal", model.Closed)
+	s := model.NewSolver()
+	base, err := s.SteadyState(p, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	q := p
+	q.StressedVolume *= 1.05
+	b.ReportAllocs()
+	beats := 0
+	for b.Loop() {
+		st, err := s.SteadyState(q, &base.Warm)
+		if err != nil {
+			b.Fatal(err)
+		}
+		beats = st.Beats
+	}
+	b.ReportMetric(float64(beats), "beats")
 }

@@ -326,7 +326,7 @@ def evaluate(segments, ts, n):
     return vs, states
 
 
-def measure(circ, start, end, integrals, segments, events):
+def measure(circ, integrals, segments, events):
     p, period = circ.p, circ.period
     ts = sample_grid(period, events)
     vs, states = evaluate(segments, ts, circ.n)
@@ -418,7 +418,7 @@ def solve(doc, tol=1e-10):
     drift = abs(float(np.sum(end) - np.sum(start))) / float(np.sum(start))
     if drift > 1e-9:
         raise SystemExit(f"reference: blood volume changed by {drift:.2g} (relative) over a beat")
-    metrics = measure(circ, start, end, integrals, segments, events)
+    metrics = measure(circ, integrals, segments, events)
     elapsed = (time.perf_counter() - start_clock) * 1000.0
     return {
         "scenario": doc.get("scenario"), "circulation": circulation, "params": p,
