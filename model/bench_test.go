@@ -16,21 +16,35 @@ func normalParams(tb testing.TB) model.Params {
 	return sc.Params
 }
 
-// BenchmarkSteadyStateCold solves the default preset in the held circulation
-// from nothing (target ≤ 2 ms).
-func BenchmarkSteadyStateCold(b *testing.B) {
-	p := inCirculation(b, "normal", model.Held)
+// benchmarkSteadyState times SteadyState(q) from the steady state of p when
+// warm, from nothing otherwise, and reports the beats it takes.
+func benchmarkSteadyState(b *testing.B, p, q model.Params, warm bool) {
 	s := model.NewSolver()
+	var w *model.Warm
+	if warm {
+		base, err := s.SteadyState(p, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		w = &base.Warm
+	}
 	b.ReportAllocs()
 	beats := 0
 	for b.Loop() {
-		st, err := s.SteadyState(p, nil)
+		st, err := s.SteadyState(q, w)
 		if err != nil {
 			b.Fatal(err)
 		}
 		beats = st.Beats
 	}
 	b.ReportMetric(float64(beats), "beats")
+}
+
+// BenchmarkSteadyStateCold solves the default preset in the held circulation
+// from nothing (target ≤ 2 ms).
+func BenchmarkSteadyStateCold(b *testing.B) {
+	p := inCirculation(b, "normal", model.Held)
+	benchmarkSteadyState(b, p, p, false)
 }
 
 // BenchmarkSteadyStateWarm re-solves the held default preset after a 5 % nudge
@@ -38,23 +52,9 @@ func BenchmarkSteadyStateCold(b *testing.B) {
 // 0.5 ms).
 func BenchmarkSteadyStateWarm(b *testing.B) {
 	p := inCirculation(b, "normal", model.Held)
-	s := model.NewSolver()
-	base, err := s.SteadyState(p, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
 	q := p
 	q.FillingPressure *= 1.05
-	b.ReportAllocs()
-	beats := 0
-	for b.Loop() {
-		st, err := s.SteadyState(q, &base.Warm)
-		if err != nil {
-			b.Fatal(err)
-		}
-		beats = st.Beats
-	}
-	b.ReportMetric(float64(beats), "beats")
+	benchmarkSteadyState(b, p, q, true)
 }
 
 // BenchmarkSteadyStateClosedCold solves the default preset in the closed
@@ -62,17 +62,7 @@ func BenchmarkSteadyStateWarm(b *testing.B) {
 // nothing.
 func BenchmarkSteadyStateClosedCold(b *testing.B) {
 	p := inCirculation(b, "normal", model.Closed)
-	s := model.NewSolver()
-	b.ReportAllocs()
-	beats := 0
-	for b.Loop() {
-		st, err := s.SteadyState(p, nil)
-		if err != nil {
-			b.Fatal(err)
-		}
-		beats = st.Beats
-	}
-	b.ReportMetric(float64(beats), "beats")
+	benchmarkSteadyState(b, p, p, false)
 }
 
 // BenchmarkSteadyStateClosedWarm re-solves the closed default preset after a
@@ -80,21 +70,7 @@ func BenchmarkSteadyStateClosedCold(b *testing.B) {
 // steady state.
 func BenchmarkSteadyStateClosedWarm(b *testing.B) {
 	p := inCirculation(b, "normal", model.Closed)
-	s := model.NewSolver()
-	base, err := s.SteadyState(p, nil)
-	if err != nil {
-		b.Fatal(err)
-	}
 	q := p
 	q.StressedVolume *= 1.05
-	b.ReportAllocs()
-	beats := 0
-	for b.Loop() {
-		st, err := s.SteadyState(q, &base.Warm)
-		if err != nil {
-			b.Fatal(err)
-		}
-		beats = st.Beats
-	}
-	b.ReportMetric(float64(beats), "beats")
+	benchmarkSteadyState(b, p, q, true)
 }
