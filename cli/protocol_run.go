@@ -161,7 +161,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 }
 
 // levers are the keys of the levers the protocol changes.
-func (r *protocolRun) levers() []string { return r.protocol.Levers() }
+func (r *protocolRun) levers() []string { return r.protocol.Levers(r.plan.Initial.Circulation) }
 
 func (r *protocolRun) writeCSV(env *Env) error {
 	w := csv.NewWriter(env.Stdout)

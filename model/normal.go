@@ -27,6 +27,9 @@ var NormalRanges = []NormalRange{
 	{"co_l_per_min", 4, 8, "resting adult 4–8 L/min [common practice, no source]"},
 	{"map_mmhg", 70, 105, "resting adult 70–105 mmHg [common practice, no source]"},
 	{"efficiency", 0.69, 0.80, "SW/PVA = 1/(1 + ½·Ea/Ees) at Ea/Ees 0.5–0.9 [derived, docs/science.md §3]"},
+	{"lap_mean_mmhg", 6, 12, "mean left-atrial or wedge pressure 6–12 mmHg [memory, docs/science.md §8]"},
+	{"cvp_mmhg", 2, 6, "right-atrial pressure 2–6 mmHg [memory, docs/science.md §9]"},
+	{"pap_mean_mmhg", 12, 20, "mean pulmonary arterial pressure 12–16, up to 20 mmHg [memory, docs/science.md §9]"},
 }
 
 // NormalRangeOf returns the normal range of a metric key, if one is known.

@@ -175,8 +175,13 @@ type ParamError struct {
 }
 
 func (e *ParamError) Error() string {
-	return fmt.Sprintf("%s = %s: %s", e.Key, strconv.FormatFloat(e.Value, 'g', -1, 64), e.Reason)
+	return fmt.Sprintf("%s = %s: %s", e.Key, FormatValue(e.Value), e.Reason)
 }
+
+// FormatValue writes a parameter value in at most 12 significant digits, so
+// that a value computed by a ramp or a factor (195.49999999999997) reads as
+// the number meant (195.5).
+func FormatValue(v float64) string { return strconv.FormatFloat(v, 'g', 12, 64) }
 
 // RangeText describes the allowed range of a spec, e.g. "allowed 1 to 40 mmHg".
 func (s Spec) RangeText() string {

@@ -2,7 +2,6 @@ package presets
 
 import (
 	"fmt"
-	"strconv"
 
 	"pvcouple/model"
 )
@@ -130,5 +129,5 @@ func changeKey(j int, st Step, c Change) string {
 
 // startText describes a lever's value at the start of a step.
 func startText(spec model.Spec, p model.Params) string {
-	return spec.Key + " = " + strconv.FormatFloat(spec.Get(p), 'g', -1, 64)
+	return spec.Key + " = " + model.FormatValue(spec.Get(p))
 }

@@ -106,13 +106,16 @@ func (pr *Protocol) maxBeats() int {
 	return max(pr.TotalBeats(model.Held), pr.TotalBeats(model.Closed))
 }
 
-// Levers returns the keys of the parameters the protocol changes, in the
-// order of model.Specs.
-func (pr *Protocol) Levers() []string {
+// Levers returns the keys of the parameters the protocol changes in a run of
+// circulation c, in the order of model.Specs.
+func (pr *Protocol) Levers(c model.Circulation) []string {
 	used := map[string]bool{}
 	for _, s := range pr.Steps {
-		for _, c := range s.Changes {
-			used[c.Key] = true
+		if !s.RunsIn(c) {
+			continue
+		}
+		for _, ch := range s.Changes {
+			used[ch.Key] = true
 		}
 	}
 	var keys []string
@@ -129,7 +132,7 @@ func (pr *Protocol) Levers() []string {
 // its loops lie on one line and fitting one ESPVR to the run makes sense; if
 // not, why names the lever that moves it.
 func (pr *Protocol) ESPVRFixed() (ok bool, why string) {
-	for _, k := range pr.Levers() {
+	for _, k := range append(pr.Levers(model.Held), pr.Levers(model.Closed)...) {
 		if k == "ees_mmhg_per_ml" || k == "v0_ml" {
 			return false, "the protocol changes " + k + ", so its loops do not share one ESPVR"
 		}

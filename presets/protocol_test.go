@@ -33,8 +33,8 @@ func TestBuiltinProtocolsLoadAndDescribeThemselves(t *testing.T) {
 		if !strings.HasPrefix(pr.Notes, "Invented") || !strings.Contains(strings.Join(strings.Fields(pr.Notes), " "), "not for treating patients") {
 			t.Errorf("%s: notes should label the protocol as our own invention, for planning only", n)
 		}
-		if len(pr.Levers()) == 0 || pr.TotalBeats(model.Held) < 10 {
-			t.Errorf("%s: changes %v over %d beats", n, pr.Levers(), pr.TotalBeats(model.Held))
+		if len(pr.Levers(model.Held)) == 0 || pr.TotalBeats(model.Held) < 10 {
+			t.Errorf("%s: changes %v over %d beats", n, pr.Levers(model.Held), pr.TotalBeats(model.Held))
 		}
 	}
 	for _, bad := range []string{"nosuch", "../presets/protocols/rate-steps", "", "rate-steps.yaml"} {
@@ -142,7 +142,7 @@ func TestParseProtocolForms(t *testing.T) {
 	if pr.TotalBeats(model.Held) != 10 {
 		t.Errorf("total %d beats, want 10", pr.TotalBeats(model.Held))
 	}
-	if got := strings.Join(pr.Levers(), " "); got != "filling_pressure_mmhg ees_mmhg_per_ml resistance_mmhg_s_per_ml heart_rate_bpm compliance_ml_per_mmhg" {
+	if got := strings.Join(pr.Levers(model.Held), " "); got != "filling_pressure_mmhg ees_mmhg_per_ml resistance_mmhg_s_per_ml heart_rate_bpm compliance_ml_per_mmhg" {
 		t.Errorf("levers %s (want model.Specs order)", got)
 	}
 	noName, err := ParseProtocol([]byte("version: 1\nsteps:\n  - {label: a, hold: 1}\n"), "dir/my-plan.yaml")

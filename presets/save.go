@@ -65,11 +65,12 @@ func (s *Scenario) Marshal() ([]byte, error) {
 }
 
 // paramsNode lists every parameter but the stressed volume of a held
-// circulation, which has none.
+// circulation, which has none, and an unknown one (0), which loading finds
+// from the filling pressure.
 func paramsNode(p model.Params) *yaml.Node {
 	n := &yaml.Node{Kind: yaml.MappingNode}
 	for _, s := range model.Specs {
-		if s.Key == "stressed_volume_ml" && p.Circulation != model.Closed {
+		if s.Key == "stressed_volume_ml" && (p.Circulation != model.Closed || p.StressedVolume == 0) {
 			continue
 		}
 		n.Content = append(n.Content,

@@ -98,7 +98,8 @@ func TestFileListsInASession(t *testing.T) {
 		t.Fatalf("save: %q", m.status)
 	}
 	hr90, _ := presets.Get("normal")
-	hr90.Name, hr90.Params.HeartRate = "lab-hr90", 90
+	// At another rate the volume is found again for the filling pressure.
+	hr90.Name, hr90.Params.HeartRate, hr90.Params.StressedVolume = "lab-hr90", 90, 0
 	data, err := hr90.Marshal()
 	if err != nil {
 		t.Fatal(err)

@@ -32,7 +32,7 @@ func computeLayout(w, h int) layout {
 		l.sideW = sideWide
 	}
 	l.mainW = w - l.sideW - 1
-	l.readH = 1 + len(readoutKeys)
+	l.readH = 1 + len(readoutKeys) // room for a closed circulation's rows
 	if w >= 100 && body >= l.readH+1+leverColumnLines() {
 		l.leverH = leverColumnLines()
 		l.mainH = body

@@ -38,9 +38,15 @@ func (p *leverPanel) Render(st *state, sel int) string {
 	s := p.s
 	var lines []string
 	base := st.target
+	var baseSt *model.Steady
 	if st.base != nil {
-		base = st.base.Params
+		base, baseSt = st.base.Params, st.base
 	}
+	// The filling pressure of a closed circulation is the mean LAP its
+	// volume gives.
+	now := st.target
+	now.FillingPressure = st.fillingPressure(st.target, st.shown)
+	base.FillingPressure = st.fillingPressure(base, baseSt)
 	if p.strip {
 		l := model.Levers[sel]
 		head := fmt.Sprintf(" Levers · %s: %s", l.Name, l.Spec().Meaning)
@@ -48,9 +54,9 @@ func (p *leverPanel) Render(st *state, sel int) string {
 		half := (len(model.Levers) + 1) / 2
 		cw := p.w / 2
 		for r := 0; r < half; r++ {
-			line := p.cell(r, st.target, base, sel, cw, true)
+			line := p.cell(r, now, base, sel, cw, true)
 			if r+half < len(model.Levers) {
-				line += p.cell(r+half, st.target, base, sel, p.w-cw, true)
+				line += p.cell(r+half, now, base, sel, p.w-cw, true)
 			}
 			lines = append(lines, padRight(line, p.w))
 		}
@@ -62,7 +68,7 @@ func (p *leverPanel) Render(st *state, sel int) string {
 		}
 		lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 		for i := range model.Levers {
-			lines = append(lines, p.cell(i, st.target, base, sel, p.w, short))
+			lines = append(lines, p.cell(i, now, base, sel, p.w, short))
 		}
 	}
 	for len(lines) < p.h {

@@ -120,6 +120,9 @@ func (v *mapView) Follow(st *state, onScreen bool) tea.Cmd {
 		v.cancel()
 		return nil
 	}
+	if st.fill {
+		return nil // the closed circulation's volume is being found: map it when it is
+	}
 	if v.job != nil && v.holds(st.target, nx, ny) {
 		return nil
 	}

@@ -126,7 +126,7 @@ func TestPlayStartsOnItsView(t *testing.T) {
 		t.Errorf("after 4 ticks: beat %d, %d computed", v.cur+1, len(v.run.beats))
 	}
 	screen := m.View()
-	for _, w := range []string{"preload-reduction", "beat 5 of 25 · baseline · t 3.43 s", "Filling pressure 10 mmHg (from 10)",
+	for _, w := range []string{"preload-reduction", "beat 5 of 25 · baseline · t 3.43 s", "Caval occlusion 0 % (from 0)",
 		"▶ playing, real time", "Readout    beat", "start", "ESPVR fit"} {
 		if !strings.Contains(screen, w) {
 			t.Errorf("screen lacks %q:\n%s", w, screen)
@@ -210,9 +210,9 @@ func TestPlayRestartStop(t *testing.T) {
 	v := m.play
 	tk.run(t, 6)
 	first := v.run
-	keys(m, "up") // filling pressure 11: R replays from the levers now
+	keys(m, "up") // filling pressure 9: R replays from the levers now
 	keys(m, "R")
-	if v.run == first || v.cur != 0 || !v.playing || v.run.plan.Initial.FillingPressure != 11 {
+	if v.run == first || v.cur != 0 || !v.playing || v.run.plan.Initial.FillingPressure != 9 {
 		t.Fatalf("R: same run %v, beat %d, from %g mmHg", v.run == first, v.cur+1, v.run.plan.Initial.FillingPressure)
 	}
 	keys(m, "x")
@@ -377,8 +377,9 @@ func TestPlayErrorsChangeNothing(t *testing.T) {
 	m, tk := playing(t, "normal", "preload-reduction", 120, 40)
 	tk.run(t, 2)
 	run, cur := m.play.run, m.play.cur
+	keys(m, "tab", "tab", "tab") // heart rate
 	for range 5 {
-		keys(m, "K") // filling pressure 35 mmHg: ×1.5 would pass 40
+		keys(m, "K") // 170 bpm: ×1.15 would pass 180
 	}
 	pickProtocol2 := func(name string) {
 		keys(m, "P")
@@ -387,8 +388,8 @@ func TestPlayErrorsChangeNothing(t *testing.T) {
 		}
 		keys(m, "enter")
 	}
-	pickProtocol2("volume-challenge")
-	want := "protocol volume-challenge:20: steps[2].ramp.filling_pressure_mmhg: from filling_pressure_mmhg = 35 the step would reach filling_pressure_mmhg = 52.5: out of range; allowed 1 to 40 mmHg"
+	pickProtocol2("inotrope-challenge")
+	want := "protocol inotrope-challenge:21: steps[2].ramp.heart_rate_bpm: from heart_rate_bpm = 170 the step would reach heart_rate_bpm = 195.5: out of range; allowed 30 to 180 bpm"
 	if m.play.run != run || m.play.cur != cur || !m.statusErr || !strings.Contains(m.status, want) {
 		t.Errorf("out-of-range protocol: run replaced %v, status %q", m.play.run != run, m.status)
 	}
@@ -420,7 +421,7 @@ func TestPlayFile(t *testing.T) {
 	withTicker(m)
 	path := filepath.Join(t.TempDir(), "occlusion.yaml")
 	data := "version: 1\nname: short-occlusion\nsteps:\n  - label: base\n    hold: 2\n" +
-		"  - label: fall\n    ramp: {filling_pressure_mmhg: 4}\n    beats: 6\n"
+		"  - label: fall\n    ramp: {caval_occlusion_pct: 50}\n    beats: 6\n"
 	if err := os.WriteFile(path, []byte(data), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -475,7 +476,7 @@ func TestStepBackShowsEarlierFit(t *testing.T) {
 		t.Fatalf("beat %d", v.cur+1)
 	}
 	screen := m.View()
-	if !strings.Contains(screen, "beat 15 of 25 · occlusion") || !strings.Contains(screen, "fitted to 15 loops") {
+	if !strings.Contains(screen, "beat 15 of 25 · caval occlusion") || !strings.Contains(screen, "fitted to 15 loops") {
 		t.Errorf("beat 15 not on screen:\n%s", screen)
 	}
 	b := v.beat().Metrics
@@ -521,17 +522,22 @@ func TestLongErrorFitsNarrowScreen(t *testing.T) {
 	m := newTestModel(t, "normal", termenv.Ascii)
 	withTicker(m)
 	press(m, tea.WindowSizeMsg{Width: 80, Height: 24})
+	keys(m, "tab", "tab", "tab") // heart rate
 	for range 5 {
 		keys(m, "K")
 	}
-	keys(m, "P", "up", "up", "enter") // volume-challenge: 35 × 1.5 mmHg is out of range
+	keys(m, "P")
+	for m.picker.names[m.picker.sel] != "inotrope-challenge" {
+		keys(m, "down")
+	}
+	keys(m, "enter") // 170 × 1.15 bpm is out of range
 	screen := m.View()
 	lines := strings.Split(screen, "\n")
 	if len(lines) != 24 {
 		t.Fatalf("%d lines", len(lines))
 	}
 	joined := strings.Join(strings.Fields(strings.Join(lines[len(lines)-3:], " ")), " ")
-	for _, w := range []string{"protocol volume-challenge:20: steps[2].ramp.filling_pressure_mmhg:", "allowed 1 to 40 mmHg"} {
+	for _, w := range []string{"protocol inotrope-challenge:21: steps[2].ramp.heart_rate_bpm:", "allowed 30 to 180 bpm"} {
 		if !strings.Contains(joined, w) {
 			t.Errorf("the error's last lines lack %q:\n%s", w, screen)
 		}

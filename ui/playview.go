@@ -233,7 +233,7 @@ func (v *playView) stateText(long bool) string {
 // start. A protocol that moves none is described instead.
 func (v *playView) leverText(level int) string {
 	r := v.run
-	keys := r.pr.Levers()
+	keys := r.pr.Levers(r.plan.Initial.Circulation)
 	if len(keys) == 0 {
 		return v.s.Dim.Render(r.pr.Description)
 	}
@@ -241,7 +241,7 @@ func (v *playView) leverText(level int) string {
 	var parts []string
 	for _, k := range keys {
 		spec, _ := model.SpecByKey(k)
-		name, dec := k, -1
+		name, dec := spec.Name, -1
 		for _, l := range model.Levers {
 			if l.Key == k {
 				name, dec = l.Short, l.Decimals+1

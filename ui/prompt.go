@@ -153,15 +153,25 @@ func (m *Model) save(path string, force bool) {
 }
 
 // toSave is the scenario that s saves as name: the levers and the baseline.
+// A closed circulation is saved with the volume on screen and its mean LAP
+// as the filling pressure; a setting still being solved without its volume,
+// which the file then leaves to be found when it is opened.
 func (m *Model) toSave(name string) *presets.Scenario {
+	p := m.st.target
+	switch {
+	case m.st.settled():
+		p = m.st.shown.Settled()
+	case p.Circulation == model.Closed:
+		p.StressedVolume = 0
+	}
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
 		Name:        safetext.Line(name),
 		Description: "Saved from pvcouple explore, started from " + safetext.Line(m.st.origin),
-		Params:      m.st.target,
+		Params:      p,
 	}
 	if m.st.base != nil {
-		b := m.st.base.Params
+		b := m.st.base.Settled()
 		sc.Baseline = &b
 	}
 	return sc

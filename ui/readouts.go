@@ -14,21 +14,25 @@ import (
 type readout struct {
 	key      string
 	decimals int
+	closed   bool // shown only for a closed circulation's beats
 	spec     model.MetricSpec
 	normal   model.NormalRange
 	hasRange bool
 }
 
 // readoutKeys are the metrics of the panel, in groups: coupling, volumes,
-// pressures and flow, energetics.
+// pressures and flow, energetics, and the rest of a closed circulation
+// (last, so a small window cuts them first).
 var readoutKeys = []struct {
 	key      string
 	decimals int
+	closed   bool
 }{
-	{"ea_mmhg_per_ml", 2}, {"ees_mmhg_per_ml", 2}, {"ea_ees_ratio", 2},
-	{"sv_ml", 1}, {"ef_pct", 1}, {"edv_ml", 1}, {"esv_ml", 1},
-	{"esp_mmhg", 1}, {"edp_mmhg", 1}, {"map_mmhg", 1}, {"co_l_per_min", 2},
-	{"sw_mmhg_ml", 0}, {"pva_mmhg_ml", 0}, {"efficiency", 2},
+	{"ea_mmhg_per_ml", 2, false}, {"ees_mmhg_per_ml", 2, false}, {"ea_ees_ratio", 2, false},
+	{"sv_ml", 1, false}, {"ef_pct", 1, false}, {"edv_ml", 1, false}, {"esv_ml", 1, false},
+	{"esp_mmhg", 1, false}, {"edp_mmhg", 1, false}, {"map_mmhg", 1, false}, {"co_l_per_min", 2, false},
+	{"sw_mmhg_ml", 0, false}, {"pva_mmhg_ml", 0, false}, {"efficiency", 2, false},
+	{"lap_mean_mmhg", 1, true}, {"cvp_mmhg", 1, true}, {"pap_mean_mmhg", 1, true},
 }
 
 // readouts returns the panel's rows.
@@ -40,7 +44,7 @@ func readouts() []readout {
 			panic("ui: readout " + k.key + " names no metric") // a programming error, caught by the tests
 		}
 		nr, has := model.NormalRangeOf(k.key)
-		rs = append(rs, readout{key: k.key, decimals: k.decimals, spec: spec, normal: nr, hasRange: has})
+		rs = append(rs, readout{key: k.key, decimals: k.decimals, closed: k.closed, spec: spec, normal: nr, hasRange: has})
 	}
 	return rs
 }
@@ -72,6 +76,12 @@ type readoutSource struct {
 	// recording opened.
 	rec *recording
 	fit fitReadout
+}
+
+// closed reports whether either beat of src is of a closed circulation
+// (which has a central venous pressure), when the panel shows its rows.
+func (src readoutSource) closed() bool {
+	return src.now != nil && !math.IsNaN(src.now.CVP) || src.base != nil && !math.IsNaN(src.base.CVP)
 }
 
 // steadySource is the panel's usual source: the loop on screen against the
@@ -133,7 +143,12 @@ func (p *readoutPanel) Render(src readoutSource) string {
 	}
 	s, c := p.s, p.cols(src.rec != nil)
 	var lines []string
-	title := ""
+	// Narrow, where the top bar has no room for it, the heading names the
+	// circulation on screen.
+	title := "held"
+	if src.closed() {
+		title = "closed"
+	}
 	if p.wide {
 		title = "Readout"
 	}
@@ -146,7 +161,11 @@ func (p *readoutPanel) Render(src readoutSource) string {
 		head += fmt.Sprintf(" %*s", c.pct, "%")
 	}
 	lines = append(lines, s.Heading.Render(padRight(head, p.w)))
+	closed := src.closed()
 	for _, r := range p.rows {
+		if r.closed && !closed {
+			continue
+		}
 		lines = append(lines, p.row(r, src, c))
 	}
 	n := p.height(src)
@@ -178,11 +197,12 @@ func (p *readoutPanel) row(r readout, src readoutSource, c columns) string {
 	val := fmt.Sprintf("%*s", c.val, fmtNum(now, r.decimals))
 	cue := " "
 	if r.hasRange {
+		// The value and its cue in one styled run: half the escapes.
 		switch r.normal.Classify(now) {
 		case 1:
-			val, cue = s.OutHigh.Render(val), s.OutHigh.Render("▲")
+			val, cue = s.OutHigh.Render(val+"▲"), ""
 		case -1:
-			val, cue = s.OutLow.Render(val), s.OutLow.Render("▼")
+			val, cue = s.OutLow.Render(val+"▼"), ""
 		}
 	}
 	dim := fmt.Sprintf("%-*s", c.unit, r.spec.Unit)

@@ -150,8 +150,14 @@ func (m *Model) topBar() string {
 			left += s.Tab.Render(name)
 		}
 	}
-	// The scenario's name on the right, said as such where there is room.
-	for _, right := range []string{s.Dim.Render("scenario ") + m.st.name + " ", m.st.name + " "} {
+	// The circulation and the scenario's name on the right, said as such
+	// where there is room.
+	circ := m.st.target.Circulation.String()
+	for _, right := range []string{
+		s.Dim.Render(circ+" circulation · scenario ") + m.st.name + " ",
+		s.Dim.Render(circ+" · ") + m.st.name + " ",
+		m.st.name + " ",
+	} {
 		if gap := m.w - lipgloss.Width(left) - lipgloss.Width(right); gap >= 1 {
 			return left + strings.Repeat(" ", gap) + right
 		}

@@ -17,6 +17,7 @@ import (
 type solvedMsg struct {
 	gen     int          // generation of the lever setting it solved; −1 when none was wanted
 	params  model.Params // the setting it solved
+	fill    bool         // solved for the filling pressure as mean LAP (closed)
 	st      *model.Steady
 	err     error
 	elapsed time.Duration
@@ -31,13 +32,16 @@ type wanted struct {
 	ok   bool // a setting is wanted
 	gen  int
 	p    model.Params
+	fill bool // find the volume for the filling pressure (closed)
 	warm model.Warm
 }
 
-// set asks for setting p of generation gen, warm-started from warm.
-func (w *wanted) set(gen int, p model.Params, warm model.Warm) {
+// set asks for setting p of generation gen, warm-started from warm; fill
+// asks for the closed circulation's volume to be found for p's filling
+// pressure.
+func (w *wanted) set(gen int, p model.Params, fill bool, warm model.Warm) {
 	w.mu.Lock()
-	w.ok, w.gen, w.p, w.warm = true, gen, p, warm
+	w.ok, w.gen, w.p, w.fill, w.warm = true, gen, p, fill, warm
 	w.mu.Unlock()
 }
 
@@ -49,10 +53,10 @@ func (w *wanted) drop() {
 }
 
 // take returns the setting wanted now and forgets it.
-func (w *wanted) take() (gen int, p model.Params, warm model.Warm, ok bool) {
+func (w *wanted) take() (gen int, p model.Params, fill bool, warm model.Warm, ok bool) {
 	w.mu.Lock()
 	defer w.mu.Unlock()
-	gen, p, warm, ok = w.gen, w.p, w.warm, w.ok
+	gen, p, fill, warm, ok = w.gen, w.p, w.fill, w.warm, w.ok
 	w.ok = false
 	return
 }
@@ -65,13 +69,19 @@ func solveCmd(t *pool.Tenant, s *model.Solver, w *wanted) tea.Cmd {
 	return func() tea.Msg {
 		msg := solvedMsg{gen: -1}
 		err := t.Do(context.Background(), pool.Interactive, func() {
-			gen, p, warm, ok := w.take()
+			gen, p, fill, warm, ok := w.take()
 			if !ok {
 				return
 			}
 			t0 := time.Now()
-			st, err := s.SteadyState(p, &warm)
-			msg = solvedMsg{gen: gen, params: p, st: st, err: err, elapsed: time.Since(t0)}
+			var st *model.Steady
+			var err error
+			if fill {
+				st, err = s.SteadyStateAtFillingPressure(p, &warm)
+			} else {
+				st, err = s.SteadyState(p, &warm)
+			}
+			msg = solvedMsg{gen: gen, params: p, fill: fill, st: st, err: err, elapsed: time.Since(t0)}
 		})
 		if err != nil {
 			msg = solvedMsg{gen: -1} // the session has ended
@@ -93,7 +103,7 @@ func (m *Model) requestSolve() tea.Cmd {
 	if m.st.shown != nil {
 		warm = m.st.shown.Warm
 	}
-	m.want.set(m.gen, m.st.target, warm)
+	m.want.set(m.gen, m.st.target, m.st.fill, warm)
 	if m.inflight {
 		return nil
 	}
@@ -112,13 +122,21 @@ func (m *Model) solved(msg solvedMsg) tea.Cmd {
 		// wanted by the time the solve's turn came: stale.
 	case msg.err == nil:
 		m.st.shown = msg.st
+		volume := ""
+		if msg.gen == m.gen && msg.fill {
+			// The volume found for the filling pressure becomes the levers'.
+			if d := msg.st.Params.StressedVolume - m.st.target.StressedVolume; m.st.target.StressedVolume > 0 {
+				volume = fmt.Sprintf(" · blood volume %s mL", fmtDelta(d, 0))
+			}
+			m.st.target, m.st.fill = msg.st.Params, false
+		}
 		if msg.gen == m.gen && m.pending != "" {
 			sv, esp := msg.st.Metrics.SV, msg.st.Metrics.ESP
-			m.setStatus(fmt.Sprintf("%s · SV %s mL, ESP %s mmHg", m.pending, fmtNum(sv, 1), fmtNum(esp, 1)))
+			m.setStatus(fmt.Sprintf("%s · SV %s mL, ESP %s mmHg%s", m.pending, fmtNum(sv, 1), fmtNum(esp, 1), volume))
 			m.pending = ""
 		}
 	case msg.gen == m.gen:
-		m.st.target = m.st.shown.Params
+		m.st.target, m.st.fill = m.st.shown.Params, false
 		m.gen++
 		m.pending = ""
 		m.setError(solveFailure(msg.err))

@@ -3,6 +3,7 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"strconv"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
@@ -100,6 +101,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		m.setStatus("Axes fitted to the loops again.")
 	case key.Matches(msg, k.Preset):
 		m.openPicker()
+	case key.Matches(msg, k.Circulation):
+		return m.switchCirculation()
 	case key.Matches(msg, k.Protocol):
 		m.openProtocols()
 	case key.Matches(msg, k.Save):
@@ -159,10 +162,18 @@ func (m *Model) showView(i int) {
 // nudge moves the selected lever one step and asks for a solve. A step past
 // the lever's range stops at the limit; a setting the model refuses (say, a
 // ventricle that would not fill) is not taken.
+//
+// In a closed circulation the filling pressure lever starts from the mean LAP
+// on screen and is a fluid challenge: the volume is found that gives the new
+// mean LAP. The other levers act at a fixed blood volume.
 func (m *Model) nudge(dir int, big bool) tea.Cmd {
 	l := model.Levers[m.sel]
 	s := l.Spec()
+	fill := l.Key == "filling_pressure_mmhg" && m.st.target.Circulation == model.Closed
 	old := s.Get(m.st.target)
+	if fill {
+		old, _ = strconv.ParseFloat(l.Format(m.st.fillingPressure(m.st.target, m.st.shown)), 64)
+	}
 	v, limErr := l.Nudge(old, dir, big)
 	if v == old {
 		m.setError(limErr.Error() + ".")
@@ -181,14 +192,42 @@ func (m *Model) nudge(dir int, big bool) tea.Cmd {
 	}
 	m.hist.push(m.snapshot())
 	m.st.target = p
+	m.st.fill = m.st.fill || fill
 	m.gen++
 	m.pending = fmt.Sprintf("%s %s → %s %s", l.Name, l.Format(old), l.Format(v), s.Unit)
+
 	if limErr != nil {
 		m.setError(limErr.Error() + ".")
 		m.pending = ""
 	} else {
 		m.setStatus(m.pending)
 	}
+	return m.requestSolve()
+}
+
+// switchCirculation moves the levers to the other circulation at the same
+// mean left-atrial pressure: into the closed one, blood volume is found that
+// gives the filling pressure as mean LAP; into the held one, the mean LAP on
+// screen becomes the held filling pressure. The baseline stays as it was.
+func (m *Model) switchCirculation() tea.Cmd {
+	p := m.st.target
+	lap := m.st.fillingPressure(p, m.st.shown)
+	fill := false
+	if p.Circulation == model.Closed {
+		p.Circulation, p.FillingPressure, p.StressedVolume = model.Held, lap, 0
+	} else {
+		p.Circulation, fill = model.Closed, true
+	}
+	m.hist.push(m.snapshot())
+	m.st.target, m.st.fill = p, fill
+	m.gen++
+	lapText := fmtNum(lap, 1)
+	if p.Circulation == model.Closed {
+		m.pending = "Closed circulation: blood volume set for a mean LAP of " + lapText + " mmHg"
+	} else {
+		m.pending = "Held circulation: the filling pressure held at the mean LAP, " + lapText + " mmHg"
+	}
+	m.setStatus(m.pending)
 	return m.requestSolve()
 }
 
@@ -210,7 +249,7 @@ func (m *Model) revert() {
 		return
 	}
 	m.hist.push(m.snapshot())
-	m.st.target, m.st.shown = m.st.base.Params, m.st.base
+	m.st.target, m.st.shown, m.st.fill = m.st.base.Params, m.st.base, false
 	m.gen++
 	m.floor, m.pending = m.gen, ""
 	m.want.drop()
@@ -224,7 +263,7 @@ func (m *Model) restore(s snapshot) tea.Cmd {
 			v.Refit() // another scenario: fit its loops afresh
 		}
 	}
-	m.st.name, m.st.origin, m.st.target, m.st.base = s.name, s.origin, s.target, s.base
+	m.st.name, m.st.origin, m.st.target, m.st.base, m.st.fill = s.name, s.origin, s.target, s.base, false
 	m.gen++
 	m.pending = ""
 	if s.target == s.base.Params {

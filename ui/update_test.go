@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -47,16 +48,20 @@ func sized(t *testing.T, preset string) *Model {
 	return m
 }
 
-func fill(m *Model) float64 { return m.st.target.FillingPressure }
+// fill is the filling-pressure lever as the panel shows it: in a closed
+// circulation the mean LAP on screen, to the lever's decimals.
+func fill(m *Model) float64 {
+	return math.Round(m.st.fillingPressure(m.st.target, m.st.shown))
+}
 
 func TestNudgeKeys(t *testing.T) {
 	for _, c := range []struct {
 		key  string
-		want float64 // filling pressure after the key, from 10 mmHg
+		want float64 // filling pressure after the key, from 8 mmHg
 	}{
-		{"up", 11}, {"k", 11}, {"down", 9}, {"j", 9},
-		{"shift+up", 15}, {"K", 15}, {"pgup", 15},
-		{"shift+down", 5}, {"J", 5}, {"pgdown", 5},
+		{"up", 9}, {"k", 9}, {"down", 7}, {"j", 7},
+		{"shift+up", 13}, {"K", 13}, {"pgup", 13},
+		{"shift+down", 3}, {"J", 3}, {"pgdown", 3},
 	} {
 		m := sized(t, "normal")
 		keys(m, c.key)
@@ -82,7 +87,7 @@ func TestNudgeRaisesSVAndESP(t *testing.T) {
 	if !(now.SV > base.SV && now.ESP > base.ESP) {
 		t.Errorf("SV %g → %g, ESP %g → %g: want both to rise", base.SV, now.SV, base.ESP, now.ESP)
 	}
-	if !strings.Contains(m.status, "Filling pressure 12 → 13 mmHg") || !strings.Contains(m.status, "SV") {
+	if !strings.Contains(m.status, "Filling pressure 10 → 11 mmHg") || !strings.Contains(m.status, "SV") {
 		t.Errorf("status %q", m.status)
 	}
 	sv := screenRow(t, m.View(), "SV")
@@ -120,7 +125,7 @@ func TestLeverSelection(t *testing.T) {
 	}
 	// The selected lever is the one nudged, and its name is on the status line.
 	keys(m, "l", "up")
-	if m.st.target.Ees != 2.6 || m.st.target.FillingPressure != 10 {
+	if m.st.target.Ees != 2.6 || m.st.target.FillingPressure != 8 {
 		t.Errorf("nudged the wrong lever: %+v", m.st.target)
 	}
 }
@@ -143,6 +148,9 @@ func TestLimitStopsAndSays(t *testing.T) {
 // less than the 10 mL above V0 a beat needs.
 func TestRefusedSettingChangesNothing(t *testing.T) {
 	sc, _ := presets.Get("normal")
+	if err := sc.SetCirculation(model.Held); err != nil {
+		t.Fatal(err)
+	}
 	sc.Params.EdpvrB, sc.Params.FillingPressure = 0.2, 2
 	m, err := New(sc, "test", NewStyles(NewRenderer(nil, termenv.Ascii)))
 	if err != nil {
@@ -190,17 +198,17 @@ func TestNudgesCoalesce(t *testing.T) {
 			t.Fatal("a nudge started a second solve while one waited")
 		}
 	}
-	if fill(m) != 16 {
-		t.Fatalf("target %g, want 16", fill(m))
+	if fill(m) != 14 {
+		t.Fatalf("target %g, want 14", fill(m))
 	}
 	msg := first().(solvedMsg)
-	if msg.params.FillingPressure != 16 {
-		t.Fatalf("the waiting solve solved %g, want the latest target 16", msg.params.FillingPressure)
+	if msg.params.FillingPressure != 14 {
+		t.Fatalf("the waiting solve solved %g, want the latest target 14", msg.params.FillingPressure)
 	}
 	if _, next := m.Update(msg); next != nil || !m.st.settled() || m.inflight {
 		t.Errorf("after the latest target's solve: another solve %v, settled %v", next != nil, m.st.settled())
 	}
-	if !strings.Contains(m.status, "Filling pressure 15 → 16 mmHg · SV") {
+	if !strings.Contains(m.status, "Filling pressure 13 → 14 mmHg · SV") {
 		t.Errorf("status %q: want the last nudge with its result", m.status)
 	}
 
@@ -209,12 +217,12 @@ func TestNudgesCoalesce(t *testing.T) {
 	msg = first().(solvedMsg)
 	m.Update(keyMsg("up"))
 	_, next := m.Update(msg)
-	if next == nil || m.st.shown.Params.FillingPressure != 17 {
-		t.Fatalf("the result for 17 mmHg was not shown, or no follow-up solve")
+	if next == nil || m.st.shown.Params.FillingPressure != 15 {
+		t.Fatalf("the result for 15 mmHg was not shown, or no follow-up solve")
 	}
 	m.Update(next())
-	if !m.st.settled() || m.st.shown.Params.FillingPressure != 18 {
-		t.Errorf("the follow-up solved %g, want the latest target 18", m.st.shown.Params.FillingPressure)
+	if !m.st.settled() || m.st.shown.Params.FillingPressure != 16 {
+		t.Errorf("the follow-up solved %g, want the latest target 16", m.st.shown.Params.FillingPressure)
 	}
 }
 
@@ -237,8 +245,8 @@ func TestRevertDropsWaitingSolve(t *testing.T) {
 func TestRunOfRunesIsSeveralKeys(t *testing.T) {
 	m := sized(t, "normal")
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("kkk")})
-	if fill(m) != 13 {
-		t.Errorf("filling pressure %g after \"kkk\", want 13", fill(m))
+	if fill(m) != 11 {
+		t.Errorf("filling pressure %g after \"kkk\", want 11", fill(m))
 	}
 }
 
@@ -249,32 +257,32 @@ func TestBaselineUndoRedo(t *testing.T) {
 	if m.st.base != base {
 		t.Fatal("a nudge moved the baseline")
 	}
-	keys(m, "b") // pin 12 mmHg
-	if m.st.base != m.st.shown || m.st.base.Params.FillingPressure != 12 {
+	keys(m, "b") // pin 10 mmHg
+	if m.st.base != m.st.shown || math.Round(m.st.base.Metrics.LAPMean) != 10 {
 		t.Fatalf("pin: baseline at %g", m.st.base.Params.FillingPressure)
 	}
 	keys(m, "b")
 	if !strings.Contains(m.status, "already the baseline") {
 		t.Errorf("second pin: %q", m.status)
 	}
-	keys(m, "up", "r") // 13, then back to the baseline (12)
-	if fill(m) != 12 || m.st.shown != m.st.base {
+	keys(m, "up", "r") // 11, then back to the baseline (10)
+	if fill(m) != 10 || m.st.shown != m.st.base {
 		t.Fatalf("revert: %g", fill(m))
 	}
-	keys(m, "u") // undo the revert: 13
-	if fill(m) != 13 || !m.st.settled() {
+	keys(m, "u") // undo the revert: 11
+	if fill(m) != 11 || !m.st.settled() {
 		t.Fatalf("undo revert: %g", fill(m))
 	}
-	keys(m, "u", "u") // undo the nudge to 13, then the pin
-	if fill(m) != 12 || m.st.base != base {
+	keys(m, "u", "u") // undo the nudge to 11, then the pin
+	if fill(m) != 10 || m.st.base != base {
 		t.Fatalf("undo pin: fill %g, baseline %g", fill(m), m.st.base.Params.FillingPressure)
 	}
 	keys(m, "ctrl+r") // redo the pin
-	if m.st.base == base || m.st.base.Params.FillingPressure != 12 {
+	if m.st.base == base || math.Round(m.st.base.Metrics.LAPMean) != 10 {
 		t.Fatalf("redo pin: baseline %g", m.st.base.Params.FillingPressure)
 	}
 	keys(m, "U") // redo the nudge
-	if fill(m) != 13 {
+	if fill(m) != 11 {
 		t.Fatalf("redo nudge: %g", fill(m))
 	}
 	keys(m, "U", "U")
@@ -284,7 +292,7 @@ func TestBaselineUndoRedo(t *testing.T) {
 	for range 10 {
 		keys(m, "u")
 	}
-	if fill(m) != 10 || m.st.base != base || !strings.Contains(m.status, "Nothing to undo") {
+	if fill(m) != 8 || m.st.base != base || !strings.Contains(m.status, "Nothing to undo") {
 		t.Errorf("undo to the start: %g, %q", fill(m), m.status)
 	}
 	// A nudge after undo forgets the redo stack.
@@ -355,7 +363,7 @@ func TestHelpKeys(t *testing.T) {
 		if m.mode != modeHelp || !strings.Contains(m.View(), "not for treating patients") {
 			t.Fatal("? did not open the help with the caution")
 		}
-		if keys(m, "up") || fill(m) != 10 {
+		if keys(m, "up") || fill(m) != 8 {
 			t.Error("a lever key acted under the help")
 		}
 		if keys(m, close) || m.mode != modeMain {
@@ -453,7 +461,8 @@ func TestSaveAndOpen(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if sc.Params != m.st.target || sc.Baseline == nil || *sc.Baseline != m.st.base.Params || sc.Name != "study" {
+	// A closed circulation is saved with its volume and its mean LAP as the filling pressure.
+	if sc.Params != m.st.shown.Settled() || sc.Baseline == nil || *sc.Baseline != m.st.base.Settled() || sc.Name != "study" {
 		t.Errorf("saved %+v", sc)
 	}
 	// Saving again over it asks first; n keeps the file, y replaces it.
@@ -462,11 +471,11 @@ func TestSaveAndOpen(t *testing.T) {
 		t.Fatalf("no confirmation: %q", m.status)
 	}
 	keys(m, "n")
-	if sc2, _ := presets.LoadScenario(path); sc2.Params.FillingPressure != 12 || !strings.Contains(m.status, "nothing saved") {
+	if sc2, _ := presets.LoadScenario(path); math.Round(sc2.Params.FillingPressure) != 10 || !strings.Contains(m.status, "nothing saved") {
 		t.Errorf("n replaced the file (%g) or said %q", sc2.Params.FillingPressure, m.status)
 	}
 	keys(m, "s", "enter", "y")
-	if sc3, _ := presets.LoadScenario(path); sc3.Params.FillingPressure != 13 {
+	if sc3, _ := presets.LoadScenario(path); math.Round(sc3.Params.FillingPressure) != 11 {
 		t.Errorf("y did not replace the file: %g", sc3.Params.FillingPressure)
 	}
 	// Esc cancels the prompt.
@@ -487,7 +496,7 @@ func TestSaveAndOpen(t *testing.T) {
 	keys(m, "o", "ctrl+u")
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(path)})
 	keys(m, "enter")
-	if m.statusErr || m.st.name != "study" || m.st.target.FillingPressure != 13 || m.st.base.Params.FillingPressure != 10 {
+	if m.statusErr || m.st.name != "study" || fill(m) != 11 || math.Round(m.st.base.Metrics.LAPMean) != 8 {
 		t.Errorf("open: %q, fill %g, base %g", m.status, fill(m), m.st.base.Params.FillingPressure)
 	}
 }
@@ -557,7 +566,7 @@ func TestTooSmallWindow(t *testing.T) {
 	if !strings.Contains(v, "Enlarge the window") || !strings.Contains(v, "80×24") || !strings.Contains(v, "60×20") {
 		t.Errorf("small window:\n%s", v)
 	}
-	if keys(m, "up"); fill(m) != 10 {
+	if keys(m, "up"); fill(m) != 8 {
 		t.Error("a lever moved while the window was too small")
 	}
 	press(m, tea.WindowSizeMsg{Width: 80, Height: 24})
@@ -600,7 +609,7 @@ func TestEscThenKeyTogether(t *testing.T) {
 		t.Errorf("alt+2 in the help: mode %d, view %d; want the help closed and view 2", m.mode, m.cur)
 	}
 	press(m, tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("k"), Alt: true})
-	if fill(m) != 11 {
-		t.Errorf("alt+k: filling pressure %g, want 11", fill(m))
+	if fill(m) != 9 {
+		t.Errorf("alt+k: filling pressure %g, want 9", fill(m))
 	}
 }
