@@ -4,8 +4,10 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -70,8 +72,31 @@ func TestLoopCSV(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := strings.Join(rows[0], ","); got != "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s" {
+	// Closed: the compartments' pressures and volumes follow, and the volumes
+	// sum to the same blood volume at every sample (conservation).
+	if got := strings.Join(rows[0], ","); !strings.HasPrefix(got, "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s,p_sa_mmhg,") ||
+		!strings.Contains(got, ",v_sv_ml,") || !strings.Contains(got, ",p_ra_mmhg,") || !strings.Contains(got, ",p_la_mmhg,") {
 		t.Errorf("header %s", got)
+	}
+	var first float64
+	for i, r := range rows[1:] {
+		var sum float64
+		for j, name := range rows[0] {
+			if strings.HasPrefix(name, "v_") {
+				v, _ := strconv.ParseFloat(r[j], 64)
+				sum += v
+			}
+		}
+		if i == 0 {
+			first = sum
+		}
+		if math.Abs(sum-first) > 1e-6*first {
+			t.Fatalf("sample %d: the volumes sum to %.9g mL, at the first sample %.9g mL", i, sum, first)
+		}
+	}
+	code, held, _ := runCLI(t, "loop", "--circulation", "held")
+	if h, _, _ := strings.Cut(held, "\n"); code != 0 || h != "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s" {
+		t.Errorf("held header %s", h)
 	}
 	// 1 kHz over a 70-bpm beat (0.857 s) plus the valve events.
 	if n := len(rows) - 1; n < 857 || n > 870 {

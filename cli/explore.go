@@ -33,7 +33,7 @@ func runDefault(env *Env, args []string) error {
 }
 
 func runExplore(env *Env, args []string) error {
-	fs := newFlags(env, "explore", "explore [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--color auto|always|never]",
+	fs := newFlags(env, "explore", "explore [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--color auto|always|never]",
 		"Opens the full-screen explorer on a scenario: the steady pressure–volume loop against its\n"+
 			"baseline, the coupling readouts and the levers. Press ? inside for every key.\n"+
 			"A model for research and education planning, not for treating patients.")

@@ -31,7 +31,7 @@ Example: pvcouple figure --set resistance_mmhg_s_per_ml=1.7 -o afterload.svg`
 
 func runFigure(env *Env, args []string) error {
 	fs := newFlags(env, "figure",
-		"figure [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--baseline FILE] -o FILE.svg|FILE.png [--size WxH] [--dpi N] [--title TEXT] [--force]",
+		"figure [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--baseline FILE] -o FILE.svg|FILE.png [--size WxH] [--dpi N] [--title TEXT] [--force]",
 		figureAbout)
 	var sel selection
 	sel.addFlags(fs)

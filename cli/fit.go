@@ -76,6 +76,11 @@ func runFit(env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
+	// One recorded loop is fitted by the ventricle and its load alone: the
+	// held circulation, whose filling pressure is a lever of the fit.
+	if err := base.SetCirculation(model.Held); err != nil {
+		return err
+	}
 	res, err := analysis.FitModel(a, analysis.FitOptions{Base: base.Params, MaxTime: time.Duration(*maxSec * float64(time.Second))})
 	if err != nil {
 		if errors.Is(err, analysis.ErrNotSteady) {
@@ -110,7 +115,8 @@ func fittedScenario(path, name string, a *analysis.Analysis, r *analysis.FitResu
 from the recording, residual %.2f mmHg and %.2f mL root-mean-square over the loop.
 Fitted values and how well the recording determines them:
 %s
-Not fitted, from the built-in %s preset: venous pressure, wall volume, valve resistances.
+Not fitted, from the built-in %s preset: venous pressure, wall volume, valve resistances,
+and the rest of the circulation (held here: run it closed with --circulation closed).
 A model fitted to one recording, for research and education planning; not patient advice.
 `, file, r.Beats, r.HeartRate, r.RMSPressure, r.RMSVolume, strings.Join(det, "\n"), baseName)
 	p := r.Params

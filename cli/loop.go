@@ -38,7 +38,7 @@ func loopTable(b *model.Beat) ([]string, [][]float64) {
 }
 
 func runLoop(env *Env, args []string) error {
-	fs := newFlags(env, "loop", "loop [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format csv|json]",
+	fs := newFlags(env, "loop", "loop [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--format csv|json]",
 		"Prints one steady beat sampled at 1 kHz plus the valve events, from activation onset\nto the start of the next beat. Columns: "+strings.Join(loopColumns, ",")+"; in the closed\ncirculation also p_KEY_mmhg and v_KEY_ml of every compartment (sa systemic arteries,\nsv systemic veins, ra, rv, pa pulmonary arteries, pv pulmonary veins, la) and the\ntricuspid and pulmonary valve flows. The volumes sum to the blood volume at every sample.")
 	var sel selection
 	sel.addFlags(fs)

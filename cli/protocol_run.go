@@ -44,7 +44,7 @@ type protocolRun struct {
 
 func runProtocolRun(env *Env, args []string) error {
 	fs := newFlags(env, "protocol run",
-		"protocol run NAME|FILE [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format csv|json] [--samples FILE.csv [--force]]",
+		"protocol run NAME|FILE [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--format csv|json] [--samples FILE.csv [--force]]",
 		"Runs a protocol (a built-in name, see `pvcouple protocol list`, or a protocol file) on a\n"+
 			"scenario as a transient: from the scenario's steady state the levers change between beats and\n"+
 			"each beat starts where the last one ended. Prints one row per beat: beat, step (its label),\n"+

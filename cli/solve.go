@@ -15,7 +15,7 @@ func init() {
 }
 
 func runSolve(env *Env, args []string) error {
-	fs := newFlags(env, "solve", "solve [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format table|json] [--save FILE.yaml [--force]]",
+	fs := newFlags(env, "solve", "solve [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--format table|json] [--save FILE.yaml [--force]]",
 		"Solves the model to its periodic steady state and prints the parameters, the beat's\nmeasurements and the work it took. --save writes the scenario as solved (after --set)\nto a scenario file that --scenario loads and that solves to the same numbers.")
 	var sel selection
 	sel.addFlags(fs)

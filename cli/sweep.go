@@ -38,7 +38,7 @@ Example: pvcouple sweep --vary resistance_mmhg_s_per_ml=0.4:2:41 --vary ees_mmhg
 
 func runSweep(env *Env, args []string) error {
 	fs := newFlags(env, "sweep",
-		"sweep --vary KEY=FROM:TO:N [--vary KEY=FROM:TO:N]... [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format csv|json] [--workers N]",
+		"sweep --vary KEY=FROM:TO:N [--vary KEY=FROM:TO:N]... [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--format csv|json] [--workers N]",
 		sweepAbout)
 	var sel selection
 	sel.addFlags(fs)

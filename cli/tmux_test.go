@@ -98,7 +98,7 @@ func TestExploreInTmux(t *testing.T) {
 		t.Errorf("NO_COLOR: the screen has colour:\n%q", s)
 	}
 	p.keys("k", "k", "k")
-	s := p.waitFor("Filling pressure 12 → 13 mmHg · SV")
+	s := p.waitFor("Filling pressure 10 → 11 mmHg · SV")
 	for _, label := range []string{"SV", "ESP"} {
 		if f := readoutFields(s, label); len(f) < 6 || !strings.HasPrefix(f[len(f)-2], "+") {
 			t.Errorf("%s did not rise on screen: %q", label, f)

@@ -29,6 +29,10 @@ func afterload(t *testing.T) *Figure {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// Held: the filling pressure, and so EDV, stay as the resistance doubles.
+	if err := sc.SetCirculation(model.Held); err != nil {
+		t.Fatal(err)
+	}
 	what := sc.Params
 	what.Resistance *= 2
 	return &Figure{Title: "What-if: resistance doubled\nBaseline: normal", WhatIf: steady(t, what), Baseline: steady(t, sc.Params)}

@@ -66,6 +66,19 @@ func (a *atrialActivation) E(t float64) float64 {
 	return a.f(t+a.pr) + a.f(t-(a.period-a.pr))
 }
 
+// bounds returns the times within the beat where the atria start or stop
+// contracting.
+func (a *atrialActivation) bounds() []float64 {
+	out := []float64{a.period - a.pr}
+	if end := a.dur - a.pr; end > 0 {
+		out = append(out, end)
+	}
+	if end := a.period - a.pr + a.dur; end < a.period {
+		out = append(out, end)
+	}
+	return out
+}
+
 // contracting reports whether the atria are contracting at t (ea > 0).
 func (a *atrialActivation) contracting(t float64) bool {
 	return t+a.pr < a.dur || t > a.period-a.pr && t-(a.period-a.pr) < a.dur

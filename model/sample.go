@@ -12,6 +12,11 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	}
 	n := int(math.Floor(period/dt+1e-9)) + 1
 	extra := []float64{s.valves.MitralClose, s.valves.AorticOpen, s.valves.AorticClose, s.valves.MitralOpen}
+	if c.closed {
+		// The atria's contraction starts and ends on a sample, so that the
+		// filling measured during it is exact (metrics_circulation.go).
+		extra = append(extra, c.atr.bounds()...)
+	}
 	times := make([]float64, 0, n+len(extra)+1)
 	for i := 0; i < n; i++ {
 		times = append(times, float64(i)*dt)

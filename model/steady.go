@@ -29,9 +29,10 @@ var closedUnknowns = [...]Compartment{LeftVentricle, SystemicArteries, RightAtri
 // starts from it (and from its Jacobian of the beat map). The zero value
 // means a cold start.
 type Warm struct {
-	State State
-	circ  Circulation
-	jac   [maxUnknowns * maxUnknowns]float64 // row-major, of the residual w.r.t. the unknowns
+	State  State
+	circ   Circulation
+	volume float64                            // stressed volume of State (closed)
+	jac    [maxUnknowns * maxUnknowns]float64 // row-major, of the residual w.r.t. the unknowns
 	// hasJac marks jac as valid for the state unknowns; hasVolume also for
 	// the stressed volume's column (closed).
 	hasJac, hasVolume bool
@@ -238,7 +239,11 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	var jac [maxUnknowns * maxUnknowns]float64
 	haveJac, haveVol := false, false
 	if warm.Valid() && warm.circ == p.Circulation {
-		sh.unknowns(warm.State, p.StressedVolume, z)
+		sv := p.StressedVolume
+		if calibrate && warm.volume > 0 {
+			sv = warm.volume // the volume is an unknown: start from the last one found
+		}
+		sh.unknowns(warm.State, sv, z)
 		jac, haveJac, haveVol = warm.jac, warm.hasJac, warm.hasVolume
 	} else {
 		sh.unknowns(p.coldGuess(), p.StressedVolume, z)
@@ -339,7 +344,7 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 		return nil, err
 	}
 	return &Steady{Beat: b, Beats: sh.beats, Residual: res,
-		Warm: Warm{State: start, circ: p.Circulation, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true}}, nil
+		Warm: Warm{State: start, circ: p.Circulation, volume: s.p.StressedVolume, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true}}, nil
 }
 
 // jacobian fills columns first…cols−1 of the forward-difference Jacobian of

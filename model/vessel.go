@@ -9,9 +9,6 @@ type vessel struct {
 // pressure returns the transmural pressure (mmHg) at volume v (mL).
 func (s *vessel) pressure(v float64) float64 { return (v - s.vu) / s.c }
 
-// volume returns the volume (mL) at pressure p (mmHg).
-func (s *vessel) volume(p float64) float64 { return s.vu + s.c*p }
-
 // Unstressed volumes of the vascular compartments of an adult, mL, which with
 // the stressed volume of about 1.3–1.5 L make a blood volume near 5 L
 // (stressed volume 20–30 % of the total) [memory, docs/science.md §9]. They do

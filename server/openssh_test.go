@@ -80,7 +80,7 @@ func TestOpenSSHClient(t *testing.T) {
 	}
 	waitText("Opened preset normal")
 	io.WriteString(in, "k")
-	waitText("Filling pressure 10 → 11 mmHg · SV")
+	waitText("Filling pressure 8 → 9 mmHg · SV")
 	io.WriteString(in, "q")
 	done := make(chan error, 1)
 	go func() { done <- cmd.Wait() }()

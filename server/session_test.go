@@ -21,7 +21,7 @@ func TestExplorerOverSSH(t *testing.T) {
 	tm := openTerm(t, l.dial(t, "alice", l.alice), "xterm-256color", 120, 40)
 	tm.waitFor("pvcouple", "Opened preset normal", "Filling pressure")
 	tm.keys("k")
-	tm.waitFor("Filling pressure 10 → 11 mmHg · SV")
+	tm.waitFor("Filling pressure 8 → 9 mmHg · SV")
 	if !sgrColour.MatchString(tm.raw()) {
 		t.Error("no colour on an xterm-256color terminal")
 	}
@@ -35,9 +35,9 @@ func TestExplorerOverSSH(t *testing.T) {
 	if err := tm.sess.WindowChange(40, 120); err != nil {
 		t.Fatal(err)
 	}
-	tm.waitFor("Filling pressure 10 → 11 mmHg · SV") // drawn again at 120×40
+	tm.waitFor("Filling pressure 8 → 9 mmHg · SV") // drawn again at 120×40
 	tm.keys("k")
-	tm.waitFor("Filling pressure 11 → 12 mmHg · SV")
+	tm.waitFor("Filling pressure 9 → 10 mmHg · SV")
 	tm.keys("q")
 	if code := tm.exit(); code != 0 {
 		t.Errorf("exit status %d after q, want 0", code)
@@ -61,7 +61,7 @@ func TestColourPerSession(t *testing.T) {
 	for _, tm := range []*term{colour, plain, dumb} {
 		tm.waitFor("Opened preset normal")
 		tm.keys("k")
-		tm.waitFor("11 mmHg · SV")
+		tm.waitFor("9 mmHg · SV")
 	}
 	if !sgrColour.MatchString(colour.raw()) {
 		t.Error("no colour in the session with xterm-256color")
@@ -184,7 +184,7 @@ func TestSessionLimit(t *testing.T) {
 		t.Errorf("the refused session was told %q", txt)
 	}
 	first.keys("k")
-	first.waitFor("11 mmHg · SV")
+	first.waitFor("9 mmHg · SV")
 	first.keys("q")
 	if code := first.exit(); code != 0 {
 		t.Errorf("exit status %d", code)
@@ -202,7 +202,7 @@ func TestIdleTimeout(t *testing.T) {
 		tm.keys("k")
 		time.Sleep(150 * time.Millisecond)
 	}
-	tm.waitFor("16 mmHg · SV")
+	tm.waitFor("14 mmHg · SV")
 	code := tm.exit()
 	if took := time.Since(start); took < 750*time.Millisecond+idle {
 		t.Errorf("closed %v after the first key, while typing", took)

@@ -6,14 +6,14 @@ import "pvcouple/model"
 // loop on screen and the baseline it is compared with. Views and panels read
 // it and never change it.
 type state struct {
-	name   string        // scenario name
-	origin string        // where it came from: "preset normal" or a file path
-	target model.Params  // the levers' setting; solved, or being solved
+	name   string       // scenario name
+	origin string       // where it came from: "preset normal" or a file path
+	target model.Params // the levers' setting; solved, or being solved
 	// fill asks for the closed circulation's volume to be found so that the
 	// mean LAP is target.FillingPressure (a fluid challenge), not kept.
-	fill   bool
-	shown  *model.Steady // the last settled loop; shown.Params may lag target
-	base   *model.Steady // the baseline loop
+	fill  bool
+	shown *model.Steady // the last settled loop; shown.Params may lag target
+	base  *model.Steady // the baseline loop
 
 	rec *recording // a recording overlaid on the PV plane; nil when none (overlay.go)
 }

@@ -52,8 +52,11 @@ type Recording struct {
 }
 
 // Make runs the model beat by beat from its steady state and samples the
-// concatenated beats on a uniform grid at spec.Rate.
+// concatenated beats on a uniform grid at spec.Rate. It runs the held
+// circulation, whatever spec.Params says, so that the occlusion lowers the
+// filling pressure itself and the truth of every beat is the levers set.
 func Make(spec Spec) (*Recording, error) {
+	spec.Params.Circulation, spec.Params.StressedVolume = model.Held, 0
 	s := model.NewSolver()
 	s.SampleInterval = 2.5e-4
 	st, err := s.SteadyState(spec.Params, nil)

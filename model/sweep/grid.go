@@ -132,10 +132,13 @@ func (g Grid) Validate() error {
 		if varied[a.Key] {
 			return fmt.Errorf("%s is varied twice; give each parameter one axis", a.Key)
 		}
+		if s, _ := model.SpecByKey(a.Key); !s.ActsIn(g.Base.Circulation) {
+			return fmt.Errorf("%s acts only in the %s circulation and this sweep is %s", a.Key, s.Circulations(), g.Base.Circulation)
+		}
 		varied[a.Key] = true
 	}
 	for _, s := range model.Specs {
-		if !varied[s.Key] {
+		if !varied[s.Key] && s.ActsIn(g.Base.Circulation) {
 			if err := s.Check(s.Get(g.Base)); err != nil {
 				return fmt.Errorf("base parameters: %w", err)
 			}
@@ -149,6 +152,21 @@ func (g Grid) Validate() error {
 		return fmt.Errorf("%.0f points is more than the %d a sweep may have; use fewer values per axis", total, MaxPoints)
 	}
 	return nil
+}
+
+// FillsVolume reports whether the points are solved for their filling
+// pressure as mean LAP: a closed circulation with the filling pressure on an
+// axis, whose volume is found anew at every point.
+func (g Grid) FillsVolume() bool {
+	if g.Base.Circulation != model.Closed {
+		return false
+	}
+	for _, a := range g.Axes {
+		if a.Key == "filling_pressure_mmhg" {
+			return true
+		}
+	}
+	return false
 }
 
 // Index returns the axis indices of point i (row-major, first axis slowest)

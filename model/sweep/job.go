@@ -171,10 +171,10 @@ func (j *Job) work(ctx context.Context, nChunks int) {
 // the gate's when it gave up waiting.
 func (j *Job) solve(ctx context.Context, s *model.Solver, p model.Params, warm *model.Warm) (pt Point, st *model.Steady, err error) {
 	if j.gate == nil {
-		pt, st = solvePoint(s, p, warm)
+		pt, st = solvePoint(s, p, warm, j.grid.FillsVolume())
 		return pt, st, nil
 	}
-	err = j.gate.Do(ctx, func() { pt, st = solvePoint(s, p, warm) })
+	err = j.gate.Do(ctx, func() { pt, st = solvePoint(s, p, warm, j.grid.FillsVolume()) })
 	return pt, st, err
 }
 

@@ -39,11 +39,17 @@ type Point struct {
 }
 
 // solvePoint finds the steady state of p, warm-starting from warm when it is
-// valid and retrying from a cold start if that does not settle.
-func solvePoint(s *model.Solver, p model.Params, warm *model.Warm) (Point, *model.Steady) {
+// valid and retrying from a cold start if that does not settle. With fill,
+// the closed circulation's volume is found for p's filling pressure (a grid
+// over the filling pressure is a series of fluid challenges).
+func solvePoint(s *model.Solver, p model.Params, warm *model.Warm, fill bool) (Point, *model.Steady) {
+	solve := s.SteadyState
+	if fill {
+		solve = s.SteadyStateAtFillingPressure
+	}
 	var pt Point
 	if warm.Valid() {
-		st, err := s.SteadyState(p, warm)
+		st, err := solve(p, warm)
 		if err == nil {
 			return okPoint(st), st
 		}
@@ -53,7 +59,7 @@ func solvePoint(s *model.Solver, p model.Params, warm *model.Warm) (Point, *mode
 		}
 		pt.Beats = ns.Beats
 	}
-	st, err := s.SteadyState(p, nil)
+	st, err := solve(p, nil)
 	if err != nil {
 		return failedPoint(err, pt.Beats), nil
 	}
@@ -70,8 +76,9 @@ func failedPoint(err error, beats int) Point {
 	pt := Point{Status: Failed, Err: err, Beats: beats}
 	var ns *model.NotSettledError
 	var pe *model.ParamError
+	var ie *model.ImplausibleError
 	switch {
-	case errors.As(err, &pe):
+	case errors.As(err, &pe), errors.As(err, &ie):
 		pt.Status = Invalid
 	case errors.As(err, &ns):
 		pt.Status = NotSettled
