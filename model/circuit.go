@@ -72,6 +72,8 @@ type circuit struct {
 	rvr, rp   float64 // venous return (with any caval occlusion) and pulmonary resistance
 	fill, pv0 float64 // held: left-atrial and venous pressure
 	act       Activation
+	table     *activationTable             // act on knots, for the right-hand side
+	tables    map[float64]*activationTable // kept by heart rate, a few
 	atr       atrialActivation
 
 	// Cache of the pressures of the last (t, y) evaluated: the events are
@@ -101,12 +103,26 @@ func (c *circuit) setParams(p *Params) {
 	c.fill, c.pv0 = p.FillingPressure, p.VenousPressure
 	if c.act.Period == 0 || c.act.Period != 60/p.HeartRate {
 		c.act = NewActivation(p.HeartRate)
+		c.table = c.tables[p.HeartRate]
+		if c.table == nil {
+			if len(c.tables) >= maxTables {
+				clear(c.tables) // a sweep over many rates: start afresh
+			}
+			if c.tables == nil {
+				c.tables = map[float64]*activationTable{}
+			}
+			c.table = newActivationTable(&c.act)
+			c.tables[p.HeartRate] = c.table
+		}
 	}
 	if c.closed && (c.atr.period != c.act.Period || c.atr.pr != p.PRInterval/1000) {
 		c.atr = newAtrialActivation(p.HeartRate, p.PRInterval)
 	}
 	c.cacheT = -1
 }
+
+// maxTables caps the activation tables a circuit keeps, one per heart rate.
+const maxTables = 16
 
 // dim is the dimension of the circuit's ODE system.
 func (c *circuit) dim() int {
@@ -130,7 +146,7 @@ func (c *circuit) pressures(t float64, y []float64) (*[NumCompartments]float64, 
 	if t == c.cacheT && c.sameY(y) {
 		return &c.cacheP, c.cacheE
 	}
-	e := c.act.E(t)
+	e, _ := c.table.at(t)
 	p := &c.cacheP
 	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
 	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries])

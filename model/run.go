@@ -173,7 +173,8 @@ func (r *Transient) record(t0, t1 float64, last bool) Recording {
 	rec.V = cols[LeftVentricle]
 	rec.P = make([]float64, len(local))
 	for i, t := range local {
-		rec.P[i] = s.c.lv.pressure(s.c.act.E(t), rec.V[i])
+		e, _ := s.c.table.at(t)
+		rec.P[i] = s.c.lv.pressure(e, rec.V[i])
 	}
 	return rec
 }

@@ -69,7 +69,7 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 			e, de = grid.e[j], grid.de[j]
 			j++
 		} else {
-			e, de = c.act.EDeriv(t)
+			e, de = c.table.at(t)
 		}
 		for k := range y {
 			y[k] = cols[k][i]
@@ -148,7 +148,7 @@ func (s *Solver) activationGrid(dt float64, n int) *actGrid {
 		g.period, g.tpeak, g.dt = a.Period, a.TPeak, dt
 		g.e, g.de = make([]float64, n), make([]float64, n)
 		for i := range g.e {
-			g.e[i], g.de[i] = a.EDeriv(float64(i) * dt)
+			g.e[i], g.de[i] = s.c.table.at(float64(i) * dt)
 		}
 	}
 	return g

@@ -102,6 +102,10 @@ func NewSolver(n int, f Func, opt Options) *Solver {
 // the work of choosing again.
 func (s *Solver) SetInitialStep(h float64) { s.opt.InitialStep = h }
 
+// SetTolerances sets the relative and absolute tolerances of the next calls
+// of Solve.
+func (s *Solver) SetTolerances(rtol, atol float64) { s.opt.RTol, s.opt.ATol = rtol, atol }
+
 // SetMaxStep caps the step size of the next calls of Solve; 0 removes the cap.
 // A cap keeps the solver from stepping over a pair of event crossings in
 // stretches where the solution is smooth but an event function is not idle.
