@@ -86,7 +86,7 @@ func analysisObject(path string, a *analysis.Analysis) object {
 		{"file", path},
 		{"recording", object{
 			{"rows", r.Rows},
-			{"samples", len(r.T)},
+			{"samples", r.Len()},
 			{"sample_rate_hz", number(r.Rate)},
 			{"duration_s", number(r.Duration())},
 			{"columns", object{{"time", nullable(r.Columns.Time)}, {"pressure", r.Columns.Pressure},
@@ -171,7 +171,7 @@ var analyzeColumns = []string{"edv_ml", "esv_ml", "sv_ml", "ef_pct", "edp_mmhg",
 func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 	r := a.Recording
 	w := env.Stdout
-	fmt.Fprintf(w, "Recording %s: %d samples at %.4g Hz over %.2f s; columns %q, %q, %q", path, len(r.T), r.Rate,
+	fmt.Fprintf(w, "Recording %s: %d samples at %.4g Hz over %.2f s; columns %q, %q, %q", path, r.Len(), r.Rate,
 		r.Duration(), r.Columns.Time, r.Columns.Pressure, r.Columns.Volume)
 	if r.Columns.Aortic != "" {
 		fmt.Fprintf(w, ", aortic %q", r.Columns.Aortic)

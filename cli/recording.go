@@ -23,7 +23,7 @@ func (r *recordingFlags) addFlags(fs *flagSet) {
 	fs.StringVar(&r.read.VolumeUnit, "volume-unit", "", "volume `UNIT`: ml or ul (default: from the column name, else ml)")
 	fs.Float64Var(&r.read.Rate, "rate", 0, "sampling rate in `HZ`, for a file without a time column")
 	fs.Float64Var(&r.read.VolumeOffset, "volume-offset", 0, "`ML` to subtract from every volume (a known parallel conductance)")
-	fs.Float64Var(&r.smoothMS, "smooth-ms", analysis.DefaultSmoothWindow*1000, "Savitzky–Golay window in `MS` for smoothing and dP/dt (2 to 100)")
+	fs.Float64Var(&r.smoothMS, "smooth-ms", 0, "Savitzky–Golay window in `MS` for smoothing and dP/dt (default: 3.75 % of the beat period, 30 ms at 75 bpm; allowed 5 samples to 1/8 of the beat)")
 	fs.BoolVar(&r.raw, "raw", false, "measure unsmoothed pressure and volume (dP/dt is still filtered)")
 	fs.StringVar(&r.espvr, "espvr", "linear", "ESPVR `FORM`: linear or quadratic")
 }
@@ -33,8 +33,8 @@ func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
 	if err := choice("espvr", r.espvr, "linear", "quadratic"); err != nil {
 		return nil, err
 	}
-	if !(r.smoothMS >= 2 && r.smoothMS <= 100) {
-		return nil, usagef("--smooth-ms %g: allowed 2 to 100 ms", r.smoothMS)
+	if !(r.smoothMS >= 0 && r.smoothMS <= 1000) {
+		return nil, usagef("--smooth-ms %g: allowed 0 (the default) to 1000 ms, within 5 samples to 1/8 of the recording's beat", r.smoothMS)
 	}
 	rec, err := analysis.LoadCSV(path, r.read)
 	if err != nil {

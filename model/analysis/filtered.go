@@ -3,96 +3,175 @@ package analysis
 import (
 	"fmt"
 	"math"
+	"slices"
 
-	"gonum.org/v1/gonum/floats"
+	"pvcouple/model"
 )
-
-// DefaultSmoothWindow is the Savitzky–Golay window, s, used to smooth
-// pressure and volume and to differentiate pressure: short against the
-// 50–100 ms of the pressure upstroke, long against the sampling interval
-// (common practice, no source).
-const DefaultSmoothWindow = 0.03
-
-// detectWindow is the shortest Savitzky–Golay window, s, of the dP/dt used to
-// find upstrokes and end-diastole: longer than the measuring window so that
-// noise cannot make an upstroke (common practice, no source).
-const detectWindow = 0.04
 
 // sgOrder is the polynomial degree of the filters: a cubic keeps the peaks
 // of pressure and dP/dt.
 const sgOrder = 3
 
-// signals are one segment of a recording after filtering.
+// minWindow is the shortest Savitzky–Golay window, samples, that differs
+// from the data (a cubic through 4 points is the data itself).
+const minWindow = sgOrder + 2
+
+// signals are one segment of a recording with its filters. The detection
+// signals (dP/dt smoothed for finding beats, and the volume as measured) are
+// kept for the whole segment as float32; the samples a beat is measured
+// from are filtered again when asked for (window), so memory does not grow
+// with the filtered copies of a long recording.
 type signals struct {
-	from       int       // index of the segment's first sample in the recording
-	t          []float64 // s
-	p, v, pao  []float64 // smoothed (or raw when smoothing is off)
-	dpdt       []float64 // mmHg/s, Savitzky–Golay derivative
-	detect     []float64 // mmHg/s, smoother derivative for finding beats
-	dt         float64   // mean sampling interval, s
-	noiseP     float64   // estimated SD of the pressure noise, mmHg
-	noiseV     float64   // estimated SD of the volume noise, mL
-	noiseVOut  float64   // estimated SD of the noise left in v, mL
-	noiseCount int       // samples the noise estimates rest on
+	rec    *Recording
+	seg    Segment
+	n      int     // samples
+	dt     float64 // sampling interval, s
+	sm, d1 *SavGol // measuring filters: smoothing and dP/dt
+	tm     *SavGol // timing filter: dV/dt for the onset and end of ejection
+	smooth bool    // pass smoothed (else raw) pressure and volume to the measurements
+
+	detect []float32 // mmHg/s, smoother dP/dt for finding beats
+	v      []float32 // mL, the volume as measured (smoothed or raw)
+
+	noiseP     float64 // estimated SD of the pressure noise, mmHg
+	noiseV     float64 // estimated SD of the volume noise, mL
+	noiseVOut  float64 // estimated SD of the noise left in v, mL
+	noiseCount int     // samples the noise estimates rest on
 }
 
-// filterSegment smooths and differentiates one segment. window is the filter
-// length in seconds; smooth false passes pressure and volume through raw.
-func filterSegment(r *Recording, s Span, window float64, smooth bool) (*signals, error) {
+// window lengths in samples for a span of seconds: odd, at least minWindow.
+func samplesOf(span, dt float64) int {
+	return max(int(math.Round(span/dt))|1, minWindow)
+}
+
+// newSignals prepares one segment: w is the windows of the recording.
+func newSignals(r *Recording, s Segment, w *windows, smooth bool) (*signals, error) {
 	n := s.To - s.From
-	t := r.T[s.From:s.To]
-	dt := (t[n-1] - t[0]) / float64(n-1)
-	w := int(math.Round(window/dt)) | 1
-	w = max(w, sgOrder+2)
-	if n < w {
-		return nil, fmt.Errorf("segment of %d samples is shorter than the filter (%d)", n, w)
+	dt := s.Step
+	ws := samplesOf(w.smooth, dt)
+	wd := max(ws, samplesOf(w.detect, dt))
+	wt := samplesOf(w.timing, dt)
+	if n < max(wd, wt) || n < 3 {
+		return nil, fmt.Errorf("segment of %d samples is shorter than the filters (%d)", n, max(wd, wt))
 	}
-	sm, err := NewSavGol(w, sgOrder, 0)
-	if err != nil {
+	sig := &signals{rec: r, seg: s, n: n, dt: dt, smooth: smooth, detect: make([]float32, n), v: make([]float32, n)}
+	var err error
+	if sig.sm, err = NewSavGol(ws, sgOrder, 0); err != nil {
 		return nil, err
 	}
-	d1, err := NewSavGol(w, sgOrder, 1)
-	if err != nil {
+	if sig.d1, err = NewSavGol(ws, sgOrder, 1); err != nil {
 		return nil, err
 	}
-	wd := max(w, int(math.Round(detectWindow/dt))|1)
-	if n < wd {
-		return nil, fmt.Errorf("segment of %d samples is shorter than the filter (%d)", n, wd)
+	if sig.tm, err = NewSavGol(wt, sgOrder, 1); err != nil {
+		return nil, err
 	}
 	d2, err := NewSavGol(wd, sgOrder, 1)
 	if err != nil {
 		return nil, err
 	}
-	sig := &signals{from: s.From, t: t, dt: dt}
-	rawP, rawV := r.P[s.From:s.To], r.V[s.From:s.To]
-	sig.dpdt = d1.Apply(nil, rawP, dt)
-	sig.detect = d2.Apply(nil, rawP, dt)
-	ps := sm.Apply(nil, rawP, dt)
-	vs := sm.Apply(nil, rawV, dt)
-	// The residual of the smooth fit estimates white noise: its variance is
-	// σ²·(1 − c₀), c₀ the filter's centre weight.
-	c0 := sm.coef[w/2][w/2]
-	sig.noiseP = rmsDiff(rawP, ps) / math.Sqrt(1-c0)
-	sig.noiseV = rmsDiff(rawV, vs) / math.Sqrt(1-c0)
-	sig.noiseCount = n
-	if smooth {
-		// A least-squares smoother passes white noise with variance σ²·c₀.
-		sig.p, sig.v = ps, vs
-		sig.noiseVOut = sig.noiseV * math.Sqrt(c0)
-	} else {
-		sig.p, sig.v = rawP, rawV
-		sig.noiseVOut = sig.noiseV
-	}
-	if r.Pao != nil {
-		sig.pao = r.Pao[s.From:s.To]
-		if smooth {
-			sig.pao = sm.Apply(nil, sig.pao, dt)
+	// Filter a block at a time; each block reads the raw samples half a
+	// window beyond its ends, so the result equals filtering the whole segment.
+	c0 := sig.sm.coef[ws/2][ws/2]
+	var rp, rv, dd, ps, vs []float64
+	var ssP, ssV float64
+	h := wd / 2
+	for b := 0; b < n; b += blockSize {
+		e := min(n, b+blockSize)
+		lo, hi := max(0, b-h), min(n, e+h)
+		rp = r.p.window(rp, s.From+lo, s.From+hi)
+		rv = r.v.window(rv, s.From+lo, s.From+hi)
+		dd = d2.Apply(grow(dd, len(rp)), rp, dt)
+		ps = sig.sm.Apply(grow(ps, len(rp)), rp, dt)
+		vs = sig.sm.Apply(grow(vs, len(rv)), rv, dt)
+		for i := b; i < e; i++ {
+			k := i - lo
+			sig.detect[i] = float32(dd[k])
+			if smooth {
+				sig.v[i] = float32(vs[k])
+			} else {
+				sig.v[i] = float32(rv[k])
+			}
+			ssP += (rp[k] - ps[k]) * (rp[k] - ps[k])
+			ssV += (rv[k] - vs[k]) * (rv[k] - vs[k])
 		}
+	}
+	// The residual of the smooth fit estimates white noise: its variance is
+	// σ²·(1 − c₀), c₀ the filter's centre weight; a least-squares smoother
+	// passes white noise with variance σ²·c₀.
+	sig.noiseP = math.Sqrt(ssP/float64(n)) / math.Sqrt(1-c0)
+	sig.noiseV = math.Sqrt(ssV/float64(n)) / math.Sqrt(1-c0)
+	sig.noiseCount = n
+	sig.noiseVOut = sig.noiseV
+	if smooth {
+		sig.noiseVOut = sig.noiseV * math.Sqrt(c0)
 	}
 	return sig, nil
 }
 
-// rmsDiff is the root-mean-square difference of two equally long series.
-func rmsDiff(a, b []float64) float64 {
-	return floats.Distance(a, b, 2) / math.Sqrt(float64(len(a)))
+// grow returns b resized to n.
+func grow(b []float64, n int) []float64 {
+	if cap(b) < n {
+		return make([]float64, n)
+	}
+	return b[:n]
+}
+
+// filtered are samples of a stretch of a segment as the measurements see them.
+type filtered struct {
+	T, P, V, DPdt []float64
+	Pao           []float64 // nil without aortic pressure
+	Flow          []float64 // −dV/dt from the timing filter, mL/s
+}
+
+// window filters samples [from, to) of the segment (indices within it): the
+// same values filtering the whole segment would give.
+func (s *signals) window(from, to int) filtered {
+	h := max(s.sm.Window, s.tm.Window) / 2
+	lo, hi := max(0, from-h), min(s.n, to+h)
+	if hi-lo < max(s.sm.Window, s.tm.Window) {
+		lo, hi = 0, s.n // only near a short segment's ends
+	}
+	r := s.rec
+	g := s.seg.From
+	rp := r.p.window(nil, g+lo, g+hi)
+	rv := r.v.window(nil, g+lo, g+hi)
+	a, b := from-lo, to-lo
+	var f filtered
+	f.T = make([]float64, to-from)
+	for i := range f.T {
+		f.T[i] = s.seg.Start + float64(from+i)*s.dt
+	}
+	f.DPdt = s.d1.Apply(nil, rp, s.dt)[a:b]
+	flow := s.tm.Apply(nil, rv, s.dt)[a:b]
+	for i := range flow {
+		flow[i] = -flow[i]
+	}
+	f.Flow = flow
+	if s.smooth {
+		f.P = s.sm.Apply(nil, rp, s.dt)[a:b]
+		f.V = s.sm.Apply(nil, rv, s.dt)[a:b]
+	} else {
+		f.P, f.V = rp[a:b], rv[a:b]
+	}
+	if r.hasAortic {
+		pao := r.pao.window(nil, g+lo, g+hi)
+		if s.smooth {
+			pao = s.sm.Apply(nil, pao, s.dt)
+		}
+		f.Pao = pao[a:b]
+	}
+	return f
+}
+
+// samples are the filtered samples of a beat for model.Measure.
+func (f filtered) samples() model.BeatSamples {
+	return model.BeatSamples{T: f.T, P: f.P, V: f.V, DPdt: f.DPdt, Pao: f.Pao, EDAtStart: true}
+}
+
+// time of sample i of the segment, s.
+func (s *signals) time(i int) float64 { return s.seg.Start + float64(i)*s.dt }
+
+// minMax returns the smallest and largest values of x.
+func minMax(x []float64) (lo, hi float64) {
+	return slices.Min(x), slices.Max(x)
 }
