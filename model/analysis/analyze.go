@@ -245,7 +245,7 @@ func (a *Analysis) measure(first bool, known func(*Beat) model.Known) {
 			b.peakP, b.minP = slices.Max(f.P), slices.Min(f.P)
 			b.minV = slices.Min(f.V)
 			b.closeGap = math.Abs(f.V[len(f.V)-1] - f.V[0])
-			b.Ejection = ejectionTiming(f)
+			b.Ejection = ejectionTiming(f, b.seg)
 		}
 		m, err := measureScaled(f.samples(), k, a.scale)
 		if err != nil {

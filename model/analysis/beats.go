@@ -9,8 +9,7 @@ import (
 )
 
 // Beat detection without an ECG (common practice, no source): each beat's
-// pressure upstroke is a peak of dP/dt (smoothed over at least the detection
-// window) above upstrokeFrac of the recording's high dP/dt (its 99.5th
+// pressure upstroke is a peak of dP/dt (from the timing filter) above upstrokeFrac of the recording's high dP/dt (its 99.5th
 // percentile), at least the refractory window apart.
 //
 // End-diastole is the later of two points before the upstroke: the onset of
@@ -19,7 +18,7 @@ import (
 // last run within a band of the largest volume, searched from at most the
 // end-diastole window before the upstroke until dP/dt reaches edFrac of its
 // peak (isovolumic contraction is then well under way). The band is three
-// noise SDs of the volume passed to the measurements (at least 0.1 % of the
+// noise SDs of the timing smoother's volume (at least 0.1 % of the
 // volume) so that noise cannot move end-diastole into isovolumic
 // contraction. When filling lasts into contraction (fast heart rates) the
 // plateau starts at mitral closure; otherwise the onset of contraction ends
@@ -133,7 +132,7 @@ func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*
 				top = i
 			}
 		}
-		band := float32(math.Max(edBandSD*sig.noiseVOut, edBandMin*math.Abs(float64(v[top]))))
+		band := float32(math.Max(edBandSD*sig.noiseVT, edBandMin*math.Abs(float64(v[top]))))
 		i := top
 		for i > lim && v[i-1] >= v[top]-band {
 			i--

@@ -3,23 +3,27 @@ package analysis
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/interp"
-	"gonum.org/v1/gonum/stat"
 )
 
-// Ejection is the timing of ejection in one beat, read from the outflow
-// −dV/dt (the timing filter's, independent of the smoothing setting).
+// Ejection is the timing of ejection in one beat, read from the timing
+// filters (fixed fractions of the beat period, independent of the smoothing
+// setting; docs/science.md §5):
 //
-// The onset and the end of ejection are where the outflow's rising and
-// falling limbs, each fitted by a straight line between limbLow and limbHigh
-// of the peak outflow, reach zero (docs/science.md §5): the volume analogue of
-// reading ejection time from the start and end of the aortic flow envelope,
-// which is how the timing of Chen et al. 2001 was taken (from memory). The
-// smallest volume is not used: volume is flat through isovolumic relaxation,
-// so any smoothing slides its minimum towards mitral opening; the straight
-// middle of a limb is kept by a cubic Savitzky–Golay filter of any length
-// that fits inside it.
+//   - the onset of ejection is where the outflow −dV/dt, rising towards its
+//     peak, crosses onsetFlowFrac of the peak (or three noise SDs of the
+//     outflow, if more): the start of the volume fall;
+//   - the end of ejection is where the volume, after the peak outflow,
+//     reaches the plateau of isovolumic relaxation: it first comes within
+//     three noise SDs (at least 0.1 % of EDV) of its smallest value.
+//
+// These are the volume analogues of reading ejection from the start and end
+// of the aortic flow, as the timing of Chen et al. 2001 was read (from
+// memory). The smallest volume itself is not used: volume is flat through
+// isovolumic relaxation, so where along the plateau its minimum falls is
+// noise, and smoothing slides it towards mitral opening.
 type Ejection struct {
 	Open  float64 // s from end-diastole (the beat's first sample): onset of ejection
 	Close float64 // s from end-diastole: end of ejection
@@ -27,11 +31,13 @@ type Ejection struct {
 	Err   string  // why the timing could not be read; empty when it was
 }
 
-// Limbs of the outflow used for the timing, fractions of its peak (common
-// practice, no source).
+// onsetFlowFrac is the share of the peak outflow that marks the onset of
+// ejection; endBandSD and endBandMin the band of the end (common practice,
+// no source).
 const (
-	limbLow  = 0.2
-	limbHigh = 0.8
+	onsetFlowFrac = 0.05
+	endBandSD     = 3
+	endBandMin    = 1e-3
 )
 
 func noEjection(why string) Ejection { return Ejection{Open: nan, Close: nan, POpen: nan, Err: why} }
@@ -39,9 +45,10 @@ func noEjection(why string) Ejection { return Ejection{Open: nan, Close: nan, PO
 // Found reports whether the timing was read.
 func (e Ejection) Found() bool { return e.Err == "" }
 
-// ejectionTiming reads the onset and end of ejection of a beat.
-func ejectionTiming(f filtered) Ejection {
-	q, t := f.Flow, f.T
+// ejectionTiming reads the onset and end of ejection of a beat; sig gives
+// the noise of its timing signals.
+func ejectionTiming(f filtered, sig *signals) Ejection {
+	q, t, v := f.Flow, f.T, f.VT
 	n := len(q)
 	iq := 0
 	for i := range q {
@@ -53,60 +60,35 @@ func ejectionTiming(f filtered) Ejection {
 	if !(qmax > 0) || iq == 0 || iq == n-1 {
 		return noEjection("no outflow peak inside the beat")
 	}
-	// Rising limb: back from the peak to the last sample at or below
-	// limbHigh, then on to the last at or below limbLow.
-	hi := iq
-	for hi > 0 && q[hi] > limbHigh*qmax {
-		hi--
+	thr := math.Max(onsetFlowFrac*qmax, 3*sig.noiseFlow)
+	if !(thr < qmax) {
+		return noEjection("the outflow does not rise above its noise")
 	}
-	lo := hi
-	for lo > 0 && q[lo] > limbLow*qmax {
-		lo--
-	}
-	open, err := limbZero(t, q, lo, hi+1, qmax, 1)
-	if err != nil {
-		return noEjection("onset of ejection: " + err.Error())
-	}
-	hi2 := iq
-	for hi2 < n-1 && q[hi2] > limbHigh*qmax {
-		hi2++
-	}
-	lo2 := hi2
-	for lo2 < n-1 && q[lo2] > limbLow*qmax {
-		lo2++
-	}
-	closeT, err := limbZero(t, q, hi2, lo2+1, qmax, -1)
-	if err != nil {
-		return noEjection("end of ejection: " + err.Error())
-	}
-	t0 := t[0]
-	if !(open >= t0 && open < t[iq] && closeT > t[iq] && closeT <= t[n-1]) {
-		return noEjection(fmt.Sprintf("outflow limbs meet zero outside the beat (onset %.0f ms, end %.0f ms after end-diastole)", (open-t0)*1e3, (closeT-t0)*1e3))
-	}
-	return Ejection{Open: open - t0, Close: closeT - t0, POpen: interpAt(t, f.P, open)}
-}
-
-// limbZero fits a line to the samples [from, to) whose outflow lies between
-// limbLow and limbHigh of qmax (or to all of them when fewer than 3 do) and
-// returns where it reaches zero; sign is the slope's expected sign.
-func limbZero(t, q []float64, from, to int, qmax, sign float64) (float64, error) {
-	var xs, ys []float64
-	for i := from; i < to; i++ {
-		if q[i] >= limbLow*qmax && q[i] <= limbHigh*qmax {
-			xs, ys = append(xs, t[i]), append(ys, q[i])
+	open := math.NaN()
+	for i := iq; i > 0; i-- {
+		if q[i] >= thr && q[i-1] < thr {
+			open = t[i-1] + (thr-q[i-1])/(q[i]-q[i-1])*(t[i]-t[i-1])
+			break
 		}
 	}
-	if len(xs) < 3 {
-		xs, ys = t[from:to], q[from:to]
+	if math.IsNaN(open) {
+		return noEjection("the outflow is already high at end-diastole")
 	}
-	if len(xs) < 2 {
-		return 0, fmt.Errorf("outflow limb too steep for the sampling")
+	vmin := slices.Min(v[iq:])
+	band := math.Max(endBandSD*sig.noiseVT, endBandMin*v[0])
+	closeT := math.NaN()
+	for i := iq + 1; i < n; i++ {
+		if v[i] <= vmin+band {
+			lvl := vmin + band
+			closeT = t[i-1] + (v[i-1]-lvl)/(v[i-1]-v[i])*(t[i]-t[i-1])
+			break
+		}
 	}
-	alpha, beta := stat.LinearRegression(xs, ys, nil, false)
-	if !(sign*beta > 0) {
-		return 0, fmt.Errorf("outflow limb has no clear slope")
+	t0 := t[0]
+	if math.IsNaN(closeT) || !(closeT > t[iq]) || closeT >= t[n-1] {
+		return noEjection(fmt.Sprintf("no end of the volume fall after the peak outflow (%.0f ms after end-diastole)", (t[iq]-t0)*1e3))
 	}
-	return -alpha / beta, nil
+	return Ejection{Open: open - t0, Close: closeT - t0, POpen: interpAt(t, f.P, open)}
 }
 
 // interpAt interpolates y(t) linearly at x, inside t.

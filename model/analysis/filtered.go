@@ -5,6 +5,8 @@ import (
 	"math"
 	"slices"
 
+	"gonum.org/v1/gonum/floats"
+
 	"pvcouple/model"
 )
 
@@ -27,15 +29,21 @@ type signals struct {
 	n      int     // samples
 	dt     float64 // sampling interval, s
 	sm, d1 *SavGol // measuring filters: smoothing and dP/dt
-	tm     *SavGol // timing filter: dV/dt for the onset and end of ejection
+	ts, td *SavGol // timing filters: smoothing and derivative
 	smooth bool    // pass smoothed (else raw) pressure and volume to the measurements
 
-	detect []float32 // mmHg/s, smoother dP/dt for finding beats
-	v      []float32 // mL, the volume as measured (smoothed or raw)
+	// The timing of beats (end-diastole, onset and end of ejection) is read
+	// from the timing filters, whose window is a fixed fraction of the beat
+	// period: the smoothing setting changes the values measured, never where
+	// a beat's events are found.
+	detect []float32 // mmHg/s, dP/dt of the timing derivative, for finding upstrokes
+	v      []float32 // mL, the volume of the timing smoother, for finding end-diastole
 
 	noiseP     float64 // estimated SD of the pressure noise, mmHg
 	noiseV     float64 // estimated SD of the volume noise, mL
-	noiseVOut  float64 // estimated SD of the noise left in v, mL
+	noiseVOut  float64 // estimated SD of the noise left in the measured volume, mL
+	noiseVT    float64 // estimated SD of the noise left in v, mL
+	noiseFlow  float64 // estimated SD of the noise of the timing derivative of volume, mL/s
 	noiseCount int     // samples the noise estimates rest on
 }
 
@@ -49,62 +57,54 @@ func newSignals(r *Recording, s Segment, w *windows, smooth bool) (*signals, err
 	n := s.To - s.From
 	dt := s.Step
 	ws := samplesOf(w.smooth, dt)
-	wd := max(ws, samplesOf(w.detect, dt))
 	wt := samplesOf(w.timing, dt)
-	if n < max(wd, wt) || n < 3 {
-		return nil, fmt.Errorf("segment of %d samples is shorter than the filters (%d)", n, max(wd, wt))
+	if n < max(ws, wt) || n < 3 {
+		return nil, fmt.Errorf("segment of %d samples is shorter than the filters (%d)", n, max(ws, wt))
 	}
 	sig := &signals{rec: r, seg: s, n: n, dt: dt, smooth: smooth, detect: make([]float32, n), v: make([]float32, n)}
 	var err error
-	if sig.sm, err = NewSavGol(ws, sgOrder, 0); err != nil {
-		return nil, err
-	}
-	if sig.d1, err = NewSavGol(ws, sgOrder, 1); err != nil {
-		return nil, err
-	}
-	if sig.tm, err = NewSavGol(wt, sgOrder, 1); err != nil {
-		return nil, err
-	}
-	d2, err := NewSavGol(wd, sgOrder, 1)
-	if err != nil {
-		return nil, err
+	for _, f := range []struct {
+		dst          **SavGol
+		window, deriv int
+	}{{&sig.sm, ws, 0}, {&sig.d1, ws, 1}, {&sig.ts, wt, 0}, {&sig.td, wt, 1}} {
+		if *f.dst, err = NewSavGol(f.window, sgOrder, f.deriv); err != nil {
+			return nil, err
+		}
 	}
 	// Filter a block at a time; each block reads the raw samples half a
 	// window beyond its ends, so the result equals filtering the whole segment.
-	c0 := sig.sm.coef[ws/2][ws/2]
-	var rp, rv, dd, ps, vs []float64
+	var rp, rv, dd, pt, vt []float64
 	var ssP, ssV float64
-	h := wd / 2
+	h := max(ws, wt) / 2
 	for b := 0; b < n; b += blockSize {
 		e := min(n, b+blockSize)
 		lo, hi := max(0, b-h), min(n, e+h)
 		rp = r.p.window(rp, s.From+lo, s.From+hi)
 		rv = r.v.window(rv, s.From+lo, s.From+hi)
-		dd = d2.Apply(grow(dd, len(rp)), rp, dt)
-		ps = sig.sm.Apply(grow(ps, len(rp)), rp, dt)
-		vs = sig.sm.Apply(grow(vs, len(rv)), rv, dt)
+		dd = sig.td.Apply(grow(dd, len(rp)), rp, dt)
+		pt = sig.ts.Apply(grow(pt, len(rp)), rp, dt)
+		vt = sig.ts.Apply(grow(vt, len(rv)), rv, dt)
 		for i := b; i < e; i++ {
 			k := i - lo
 			sig.detect[i] = float32(dd[k])
-			if smooth {
-				sig.v[i] = float32(vs[k])
-			} else {
-				sig.v[i] = float32(rv[k])
-			}
-			ssP += (rp[k] - ps[k]) * (rp[k] - ps[k])
-			ssV += (rv[k] - vs[k]) * (rv[k] - vs[k])
+			sig.v[i] = float32(vt[k])
+			ssP += (rp[k] - pt[k]) * (rp[k] - pt[k])
+			ssV += (rv[k] - vt[k]) * (rv[k] - vt[k])
 		}
 	}
-	// The residual of the smooth fit estimates white noise: its variance is
-	// σ²·(1 − c₀), c₀ the filter's centre weight; a least-squares smoother
-	// passes white noise with variance σ²·c₀.
-	sig.noiseP = math.Sqrt(ssP/float64(n)) / math.Sqrt(1-c0)
-	sig.noiseV = math.Sqrt(ssV/float64(n)) / math.Sqrt(1-c0)
+	// The residual of the timing smoother estimates white noise (whatever the
+	// smoothing setting): its variance is σ²·(1 − c₀), c₀ the filter's centre
+	// weight; a least-squares smoother passes white noise with variance σ²·c₀.
+	ct := sig.ts.coef[wt/2][wt/2]
+	sig.noiseP = math.Sqrt(ssP/float64(n)) / math.Sqrt(1-ct)
+	sig.noiseV = math.Sqrt(ssV/float64(n)) / math.Sqrt(1-ct)
 	sig.noiseCount = n
 	sig.noiseVOut = sig.noiseV
 	if smooth {
-		sig.noiseVOut = sig.noiseV * math.Sqrt(c0)
+		sig.noiseVOut = sig.noiseV * math.Sqrt(sig.sm.coef[ws/2][ws/2])
 	}
+	sig.noiseVT = sig.noiseV * math.Sqrt(ct)
+	sig.noiseFlow = sig.noiseV * floats.Norm(sig.td.coef[wt/2], 2) / dt
 	return sig, nil
 }
 
@@ -120,15 +120,17 @@ func grow(b []float64, n int) []float64 {
 type filtered struct {
 	T, P, V, DPdt []float64
 	Pao           []float64 // nil without aortic pressure
-	Flow          []float64 // −dV/dt from the timing filter, mL/s
+	VT            []float64 // volume from the timing smoother, mL
+	Flow          []float64 // outflow −dV/dt from the timing derivative, mL/s
 }
 
 // window filters samples [from, to) of the segment (indices within it): the
 // same values filtering the whole segment would give.
 func (s *signals) window(from, to int) filtered {
-	h := max(s.sm.Window, s.tm.Window) / 2
+	wmax := max(s.sm.Window, s.ts.Window)
+	h := wmax / 2
 	lo, hi := max(0, from-h), min(s.n, to+h)
-	if hi-lo < max(s.sm.Window, s.tm.Window) {
+	if hi-lo < wmax {
 		lo, hi = 0, s.n // only near a short segment's ends
 	}
 	r := s.rec
@@ -142,7 +144,8 @@ func (s *signals) window(from, to int) filtered {
 		f.T[i] = s.seg.Start + float64(from+i)*s.dt
 	}
 	f.DPdt = s.d1.Apply(nil, rp, s.dt)[a:b]
-	flow := s.tm.Apply(nil, rv, s.dt)[a:b]
+	f.VT = s.ts.Apply(nil, rv, s.dt)[a:b]
+	flow := s.td.Apply(nil, rv, s.dt)[a:b]
 	for i := range flow {
 		flow[i] = -flow[i]
 	}

@@ -13,8 +13,7 @@ import (
 const (
 	smoothFrac     = 0.0375 // default Savitzky–Golay window for measuring
 	maxSmoothFrac  = 0.125  // the longest smoothing allowed
-	detectFrac     = 0.05   // dP/dt window for finding beats, at least the smoothing
-	timingFrac     = 0.05   // dV/dt window for the onset and end of ejection
+	timingFrac     = 0.05   // timing filters: finding beats, the onset and end of ejection
 	refractoryFrac = 0.3    // upstrokes closer than this are one
 	edSearchFrac   = 0.3    // how far before an upstroke end-diastole is sought
 	// minSamplesPerBeat: fewer samples than this a beat cannot be measured.
@@ -25,7 +24,7 @@ const (
 type windows struct {
 	period               float64 // median beat period found before detection
 	smooth               float64 // measuring window
-	detect, timing       float64
+	timing               float64
 	refractory, edSearch float64
 	minSmooth, maxSmooth float64 // the range allowed for smooth
 }
@@ -33,7 +32,7 @@ type windows struct {
 // newWindows sets the windows for a recording of median period T sampled at
 // rate; smooth is the requested measuring window (0: the default).
 func newWindows(T, rate, smooth float64) (*windows, error) {
-	w := &windows{period: T, detect: detectFrac * T, timing: timingFrac * T,
+	w := &windows{period: T, timing: timingFrac * T,
 		refractory: refractoryFrac * T, edSearch: edSearchFrac * T,
 		minSmooth: minWindow / rate, maxSmooth: maxSmoothFrac * T}
 	if T*rate < minSamplesPerBeat {
@@ -48,7 +47,6 @@ func newWindows(T, rate, smooth float64) (*windows, error) {
 		w.smooth = smooth
 	}
 	w.smooth = max(w.smooth, w.minSmooth)
-	w.detect = max(w.detect, w.smooth)
 	return w, nil
 }
 
