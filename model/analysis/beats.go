@@ -57,6 +57,7 @@ type Beat struct {
 	minV     float64 // smallest volume, mL
 	closeGap float64 // |V(end) − V(start)|, mL
 	from, to int     // the beat's samples in the recording
+	onset    int     // the sample of the onset of contraction (≤ from)
 	seg      *signals
 }
 
@@ -105,6 +106,7 @@ func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*
 	}
 	// End-diastole of each upstroke; −1 where none is found.
 	eds := make([]int, len(ups))
+	onsets := make([]int, len(ups))
 	v := sig.v
 	for j, k := range ups {
 		lim := max(0, k-back)
@@ -137,7 +139,7 @@ func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*
 		for i > lim && v[i-1] >= v[top]-band {
 			i--
 		}
-		eds[j] = max(i, onset)
+		eds[j], onsets[j] = max(i, onset), onset
 	}
 	var beats []*Beat
 	g := sig.seg.From
@@ -172,6 +174,7 @@ func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*
 		}
 		b := newBeat(eds[prev], eds[j]+1)
 		b.Upstroke = sig.time(ups[prev])
+		b.onset = g + onsets[prev]
 		beats = append(beats, b)
 		prev = j
 	}

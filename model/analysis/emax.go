@@ -38,9 +38,11 @@ const (
 	emaxMinR2 = 0.9
 )
 
-// fitEmax fits E(t) to the beats of a run. Beats are aligned on their
-// end-diastole (first sample); end is the time after end-diastole where
-// ejection ends, s.
+// fitEmax fits E(t) to the beats of a run. Beats are aligned on their onset
+// of contraction, where dP/dt first passes onsetFrac of its peak (in the
+// isovolumic phase dP/dt is the activation's rate times a factor of the
+// load, so this point does not move with preload as end-diastole can); end
+// is the time after it where ejection ends, s.
 func fitEmax(beats []*Beat, end float64) (*EmaxFit, error) {
 	if len(beats) < MinESPVRBeats {
 		return nil, errors.New("too few beats")
@@ -54,7 +56,7 @@ func fitEmax(beats []*Beat, end float64) (*EmaxFit, error) {
 		if b.seg.dt != dt {
 			return nil, errors.New("the run's beats are sampled at different intervals")
 		}
-		f := b.filtered()
+		f := b.seg.window(b.onset-b.seg.seg.From, b.to-b.seg.seg.From)
 		loops = append(loops, pv{f.P, f.V})
 		shortest = min(shortest, len(f.P))
 	}

@@ -133,7 +133,7 @@ func (a *Analysis) fitRun(run *Run) {
 	end := 0.0
 	for _, b := range run.Beats {
 		if b.Ejection.Found() {
-			end = math.Max(end, b.Ejection.Close)
+			end = math.Max(end, b.Ejection.Close+float64(b.from-b.onset)*b.seg.dt)
 		}
 	}
 	if end == 0 {
