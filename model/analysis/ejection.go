@@ -17,7 +17,9 @@ import (
 //     outflow, if more): the start of the volume fall;
 //   - the end of ejection is where the volume, after the peak outflow,
 //     reaches the plateau of isovolumic relaxation: it first comes within
-//     three noise SDs (at least 0.1 % of EDV) of its smallest value.
+//     three noise SDs (at least 0.1 % of EDV) of its smallest value before
+//     filling starts (inflow beyond the onset threshold; the last half window
+//     before it is left out, where the smoother dips ahead of the inflow).
 //
 // These are the volume analogues of reading ejection from the start and end
 // of the aortic flow, as the timing of Chen et al. 2001 was read (from
@@ -74,10 +76,23 @@ func ejectionTiming(f filtered, sig *signals) Ejection {
 	if math.IsNaN(open) {
 		return noEjection("the outflow is already high at end-diastole")
 	}
-	vmin := slices.Min(v[iq:])
+	// The plateau ends where filling starts (inflow beyond the threshold);
+	// the smoother dips below the plateau half its window before that.
+	fill := n
+	for i := iq; i < n; i++ {
+		if q[i] <= -thr {
+			fill = i
+			break
+		}
+	}
+	last := fill - sig.ts.Window/2
+	if last <= iq+1 {
+		last = fill
+	}
+	vmin := slices.Min(v[iq:last])
 	band := math.Max(endBandSD*sig.noiseVT, endBandMin*v[0])
 	closeT := math.NaN()
-	for i := iq + 1; i < n; i++ {
+	for i := iq + 1; i < last; i++ {
 		if v[i] <= vmin+band {
 			lvl := vmin + band
 			closeT = t[i-1] + (v[i-1]-lvl)/(v[i-1]-v[i])*(t[i]-t[i-1])
