@@ -46,11 +46,12 @@ const (
 	MaxFileBytes = MaxSamples * 64
 )
 
-// Allowed ranges of the calibration options.
+// Allowed ranges of the calibration (common practice, no source; α of
+// conductance catheters is usually found between 0.3 and 1.5, from memory).
 const (
-	maxVolumeOffset = 1000 // mL
-	minAlpha        = 0.1
-	maxAlpha        = 5.0
+	MaxVolumeOffset = 1000 // mL, either sign
+	MinAlpha        = 0.1
+	MaxAlpha        = 5.0
 )
 
 // LoadCSV reads a recording from a CSV file; see ReadCSV.
@@ -110,11 +111,11 @@ func (o ReadOptions) Check() error {
 	if o.Rate != 0 && !(o.Rate >= MinRate && o.Rate <= MaxRate) {
 		return fmt.Errorf("--rate %g: allowed %d to %d Hz", o.Rate, MinRate, MaxRate)
 	}
-	if !(math.Abs(o.VolumeOffset) <= maxVolumeOffset) {
-		return fmt.Errorf("--volume-offset %g: allowed −%d to %d mL", o.VolumeOffset, maxVolumeOffset, maxVolumeOffset)
+	if !(math.Abs(o.VolumeOffset) <= MaxVolumeOffset) {
+		return fmt.Errorf("--volume-offset %g: allowed −%d to %d mL", o.VolumeOffset, MaxVolumeOffset, MaxVolumeOffset)
 	}
-	if o.Alpha != 0 && !(o.Alpha >= minAlpha && o.Alpha <= maxAlpha) {
-		return fmt.Errorf("--alpha %g: allowed %g to %g (dimensionless)", o.Alpha, minAlpha, maxAlpha)
+	if o.Alpha != 0 && !(o.Alpha >= MinAlpha && o.Alpha <= MaxAlpha) {
+		return fmt.Errorf("--alpha %g: allowed %g to %g (dimensionless)", o.Alpha, MinAlpha, MaxAlpha)
 	}
 	return nil
 }

@@ -30,7 +30,12 @@ type Ejection struct {
 	Open  float64 // s from end-diastole (the beat's first sample): onset of ejection
 	Close float64 // s from end-diastole: end of ejection
 	POpen float64 // LV pressure at the onset of ejection, mmHg
-	Err   string  // why the timing could not be read; empty when it was
+	// VEnd is the volume left at the end of ejection, mL: the median of the
+	// measured volume over the plateau from the end of ejection to where
+	// filling starts (the volume ejected is EDV − VEnd); TEnd is the middle
+	// of that plateau, s from end-diastole.
+	VEnd, TEnd float64
+	Err  string // why the timing could not be read; empty when it was
 }
 
 // onsetFlowFrac is the share of the peak outflow that marks the onset of
@@ -42,7 +47,9 @@ const (
 	endBandMin    = 1e-3
 )
 
-func noEjection(why string) Ejection { return Ejection{Open: nan, Close: nan, POpen: nan, Err: why} }
+func noEjection(why string) Ejection {
+	return Ejection{Open: nan, Close: nan, POpen: nan, VEnd: nan, TEnd: nan, Err: why}
+}
 
 // Found reports whether the timing was read.
 func (e Ejection) Found() bool { return e.Err == "" }
@@ -91,11 +98,11 @@ func ejectionTiming(f filtered, sig *signals) Ejection {
 	}
 	vmin := slices.Min(v[iq:last])
 	band := math.Max(endBandSD*sig.noiseVT, endBandMin*v[0])
-	closeT := math.NaN()
+	closeT, iClose := math.NaN(), 0
 	for i := iq + 1; i < last; i++ {
 		if v[i] <= vmin+band {
 			lvl := vmin + band
-			closeT = t[i-1] + (v[i-1]-lvl)/(v[i-1]-v[i])*(t[i]-t[i-1])
+			closeT, iClose = t[i-1]+(v[i-1]-lvl)/(v[i-1]-v[i])*(t[i]-t[i-1]), i
 			break
 		}
 	}
@@ -103,7 +110,10 @@ func ejectionTiming(f filtered, sig *signals) Ejection {
 	if math.IsNaN(closeT) || !(closeT > t[iq]) || closeT >= t[n-1] {
 		return noEjection(fmt.Sprintf("no end of the volume fall after the peak outflow (%.0f ms after end-diastole)", (t[iq]-t0)*1e3))
 	}
-	return Ejection{Open: open - t0, Close: closeT - t0, POpen: interpAt(t, f.P, open)}
+	end := max(last, iClose+1)
+	plateau := append([]float64(nil), f.V[iClose:end]...)
+	return Ejection{Open: open - t0, Close: closeT - t0, POpen: interpAt(t, f.P, open), VEnd: median(plateau),
+		TEnd: 0.5*(t[iClose]+t[end-1]) - t0}
 }
 
 // interpAt interpolates y(t) linearly at x, inside t.

@@ -4,12 +4,14 @@ import (
 	"bytes"
 	"errors"
 	"math"
+	"strings"
 	"testing"
 )
 
 // FuzzReadCSV feeds arbitrary bytes to the recording reader and, when it
-// accepts them, to the analysis: neither may panic, and an accepted
-// recording must keep the reader's promises. The seed corpus is in
+// accepts them, to the analysis: neither may panic, every refusal of the
+// reader names the file, a line and a column, and an accepted recording
+// must keep the reader's promises. The seed corpus is in
 // testdata/fuzz/FuzzReadCSV. Run: go test ./model/analysis -run '^$' -fuzz FuzzReadCSV -fuzztime 2m
 func FuzzReadCSV(f *testing.F) {
 	f.Add([]byte("time_s,pressure_mmhg,volume_ml\n0,10,120\n0.001,11,120\n"))
@@ -17,8 +19,8 @@ func FuzzReadCSV(f *testing.F) {
 		rec, err := ReadCSV(bytes.NewReader(data), "fuzz.csv", ReadOptions{})
 		if err != nil {
 			var ie *InputError
-			if !errors.As(err, &ie) {
-				t.Fatalf("error is not an InputError: %v", err)
+			if !errors.As(err, &ie) || ie.File != "fuzz.csv" || ie.Line < 1 || ie.Col < 1 {
+				t.Fatalf("refusal without file, line and column: %v", err)
 			}
 			return
 		}
@@ -54,7 +56,38 @@ func FuzzReadCSV(f *testing.F) {
 			}
 		}
 		if _, err := Analyze(rec, Options{}); err != nil {
+			var ie *InputError
+			var se *SmoothError
+			if !errors.As(err, &ie) && !errors.As(err, &se) && !strings.Contains(err.Error(), "samples") {
+				t.Fatalf("analysis refusal of another kind: %v", err)
+			}
 			return
+		}
+	})
+}
+
+// FuzzReadCalibration feeds arbitrary bytes to the calibration reader: it
+// may not panic, every refusal is an *InputError naming the file, a line and
+// a column, and an accepted file is in range and reads back the same after
+// Marshal. Seed corpus: testdata/fuzz/FuzzReadCalibration. Run: go test
+// ./model/analysis -run '^$' -fuzz FuzzReadCalibration -fuzztime 1m
+func FuzzReadCalibration(f *testing.F) {
+	f.Add([]byte("version: 1\nparallel_volume_ml: 12.5\nalpha: 0.8\nsource: saline.csv\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		c, err := ReadCalibration(bytes.NewReader(data), "fuzz.yaml")
+		if err != nil {
+			var ie *InputError
+			if !errors.As(err, &ie) || ie.File != "fuzz.yaml" || ie.Line < 1 || ie.Col < 1 {
+				t.Fatalf("refusal without file, line and column: %v", err)
+			}
+			return
+		}
+		if !(c.Alpha >= MinAlpha && c.Alpha <= MaxAlpha) || !(math.Abs(c.ParallelVolume) <= MaxVolumeOffset) {
+			t.Fatalf("out of range accepted: %+v", c)
+		}
+		back, err := ReadCalibration(bytes.NewReader(c.Marshal()), "back.yaml")
+		if err != nil || *back != *c {
+			t.Fatalf("round trip: %v, %+v vs %+v", err, back, c)
 		}
 	})
 }
