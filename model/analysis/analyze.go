@@ -3,6 +3,7 @@ package analysis
 import (
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
 	"strings"
 
@@ -164,10 +165,16 @@ func Analyze(r *Recording, o Options) (*Analysis, error) {
 	for i, b := range a.Beats {
 		b.Index = i + 1
 	}
+	for _, s := range a.sigs {
+		s.detect, s.v = nil, nil // only beat finding needs them
+	}
+	if r.Len() > largeRecording {
+		runtime.GC() // they are a third of a long recording's memory
+	}
 	// First pass: V0 unknown; below the volumes when they carry an offset.
 	a.Known = model.Unknown()
 	a.V0Source, a.EesSource = SourceNone, SourceNone
-	if lo, hi := percentiles(&r.v); lo < 0.01*hi {
+	if lo, hi := r.vRange[0], r.vRange[1]; lo < 0.01*hi {
 		a.Known.V0, a.V0Source = lo-0.1*(hi-lo), SourceVolumeFloor
 	}
 	a.measure(true, nil)
@@ -232,6 +239,7 @@ func (a *Analysis) noise() {
 // known is not nil. The first pass also reads what does not depend on V0:
 // ejection timing, extremes and loop closure.
 func (a *Analysis) measure(first bool, known func(*Beat) model.Known) {
+	var buf windowBuf
 	for _, b := range a.Beats {
 		if math.IsNaN(b.Upstroke) {
 			continue
@@ -240,7 +248,7 @@ func (a *Analysis) measure(first bool, known func(*Beat) model.Known) {
 		if known != nil {
 			k = known(b)
 		}
-		f := b.filtered()
+		f := b.seg.windowInto(&buf, b.from-b.seg.seg.From, b.to-b.seg.seg.From)
 		if first {
 			b.peakP, b.minP = slices.Max(f.P), slices.Min(f.P)
 			b.minV = slices.Min(f.V)

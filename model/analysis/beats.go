@@ -3,7 +3,6 @@ package analysis
 import (
 	"math"
 	"reflect"
-	"slices"
 
 	"pvcouple/model"
 )
@@ -185,12 +184,20 @@ func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*
 // upstrokeThreshold is upstrokeFrac of the 99.5th percentile of dP/dt over
 // all segments.
 func upstrokeThreshold(segs []*signals) float64 {
-	var all []float32
+	n := 0
 	for _, s := range segs {
-		all = append(all, s.detect...)
+		n += len(s.detect)
 	}
-	slices.Sort(all)
-	return upstrokeFrac * float64(all[int(0.995*float64(len(all)-1))])
+	at := func(i int) float64 {
+		for _, s := range segs {
+			if i < len(s.detect) {
+				return float64(s.detect[i])
+			}
+			i -= len(s.detect)
+		}
+		return nan
+	}
+	return upstrokeFrac * quantileOf(n, at, 0.995)
 }
 
 // nanMetrics is a Metrics with every value NaN.

@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"runtime"
 	"strconv"
 	"strings"
 	"unicode"
@@ -45,6 +46,10 @@ const (
 	MaxSamples   = 1 << 24
 	MaxFileBytes = MaxSamples * 64
 )
+
+// largeRecording is the number of samples beyond which reading ends with a
+// garbage collection (15 minutes at 1 kHz).
+const largeRecording = 1 << 20
 
 // Allowed ranges of the calibration (common practice, no source; α of
 // conductance catheters is usually found between 0.3 and 1.5, from memory).
@@ -354,6 +359,12 @@ func (rd *reader) read() (*Recording, error) {
 	}
 	if err := rec.setTimeline(&t, o, rd); err != nil {
 		return nil, err
+	}
+	if t.n > largeRecording {
+		// The times are a third of a long recording's memory and are no
+		// longer needed: return them before the analysis allocates its own.
+		t = times{}
+		runtime.GC()
 	}
 	if err := rec.checkPlausible(rd); err != nil {
 		return nil, err

@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-
-	"gonum.org/v1/gonum/interp"
 )
 
 // Ejection is the timing of ejection in one beat, read from the timing
@@ -35,7 +33,7 @@ type Ejection struct {
 	// filling starts (the volume ejected is EDV − VEnd); TEnd is the middle
 	// of that plateau, s from end-diastole.
 	VEnd, TEnd float64
-	Err  string // why the timing could not be read; empty when it was
+	Err        string // why the timing could not be read; empty when it was
 }
 
 // onsetFlowFrac is the share of the peak outflow that marks the onset of
@@ -73,10 +71,12 @@ func ejectionTiming(f filtered, sig *signals) Ejection {
 	if !(thr < qmax) {
 		return noEjection("the outflow does not rise above its noise")
 	}
-	open := math.NaN()
+	open, pOpen := math.NaN(), math.NaN()
 	for i := iq; i > 0; i-- {
 		if q[i] >= thr && q[i-1] < thr {
-			open = t[i-1] + (thr-q[i-1])/(q[i]-q[i-1])*(t[i]-t[i-1])
+			// The crossing, and the pressure there, between two samples.
+			frac := (thr - q[i-1]) / (q[i] - q[i-1])
+			open, pOpen = t[i-1]+frac*(t[i]-t[i-1]), f.P[i-1]+frac*(f.P[i]-f.P[i-1])
 			break
 		}
 	}
@@ -112,15 +112,6 @@ func ejectionTiming(f filtered, sig *signals) Ejection {
 	}
 	end := max(last, iClose+1)
 	plateau := append([]float64(nil), f.V[iClose:end]...)
-	return Ejection{Open: open - t0, Close: closeT - t0, POpen: interpAt(t, f.P, open), VEnd: median(plateau),
+	return Ejection{Open: open - t0, Close: closeT - t0, POpen: pOpen, VEnd: median(plateau),
 		TEnd: 0.5*(t[iClose]+t[end-1]) - t0}
-}
-
-// interpAt interpolates y(t) linearly at x, inside t.
-func interpAt(t, y []float64, x float64) float64 {
-	var pl interp.PiecewiseLinear
-	if err := pl.Fit(t, y); err != nil {
-		return nan
-	}
-	return pl.Predict(math.Max(t[0], math.Min(t[len(t)-1], x)))
 }

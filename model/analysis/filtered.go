@@ -64,7 +64,7 @@ func newSignals(r *Recording, s Segment, w *windows, smooth bool) (*signals, err
 	sig := &signals{rec: r, seg: s, n: n, dt: dt, smooth: smooth, detect: make([]float32, n), v: make([]float32, n)}
 	var err error
 	for _, f := range []struct {
-		dst          **SavGol
+		dst           **SavGol
 		window, deriv int
 	}{{&sig.sm, ws, 0}, {&sig.d1, ws, 1}, {&sig.ts, wt, 0}, {&sig.td, wt, 1}} {
 		if *f.dst, err = NewSavGol(f.window, sgOrder, f.deriv); err != nil {
@@ -125,8 +125,20 @@ type filtered struct {
 }
 
 // window filters samples [from, to) of the segment (indices within it): the
-// same values filtering the whole segment would give.
+// same values filtering the whole segment would give. The slices are new.
 func (s *signals) window(from, to int) filtered {
+	var b windowBuf
+	return s.windowInto(&b, from, to)
+}
+
+// windowBuf holds the work arrays of windowInto.
+type windowBuf struct {
+	t, rp, rv, pa, dp, vt, q, p, v, pao []float64
+}
+
+// windowInto is window with the arrays of buf (valid until its next use), so
+// that measuring thousands of beats makes no garbage.
+func (s *signals) windowInto(buf *windowBuf, from, to int) filtered {
 	wmax := max(s.sm.Window, s.ts.Window)
 	h := wmax / 2
 	lo, hi := max(0, from-h), min(s.n, to+h)
@@ -135,31 +147,36 @@ func (s *signals) window(from, to int) filtered {
 	}
 	r := s.rec
 	g := s.seg.From
-	rp := r.p.window(nil, g+lo, g+hi)
-	rv := r.v.window(nil, g+lo, g+hi)
+	n := hi - lo
+	buf.rp = r.p.window(buf.rp, g+lo, g+hi)
+	buf.rv = r.v.window(buf.rv, g+lo, g+hi)
 	a, b := from-lo, to-lo
 	var f filtered
-	f.T = make([]float64, to-from)
-	for i := range f.T {
-		f.T[i] = s.seg.Start + float64(from+i)*s.dt
+	buf.t = grow(buf.t, to-from)
+	for i := range buf.t {
+		buf.t[i] = s.seg.Start + float64(from+i)*s.dt
 	}
-	f.DPdt = s.d1.Apply(nil, rp, s.dt)[a:b]
-	f.VT = s.ts.Apply(nil, rv, s.dt)[a:b]
-	flow := s.td.Apply(nil, rv, s.dt)[a:b]
-	for i := range flow {
-		flow[i] = -flow[i]
+	f.T = buf.t
+	buf.dp = s.d1.Apply(grow(buf.dp, n), buf.rp, s.dt)
+	buf.vt = s.ts.Apply(grow(buf.vt, n), buf.rv, s.dt)
+	buf.q = s.td.Apply(grow(buf.q, n), buf.rv, s.dt)
+	for i := range buf.q {
+		buf.q[i] = -buf.q[i]
 	}
-	f.Flow = flow
+	f.DPdt, f.VT, f.Flow = buf.dp[a:b], buf.vt[a:b], buf.q[a:b]
 	if s.smooth {
-		f.P = s.sm.Apply(nil, rp, s.dt)[a:b]
-		f.V = s.sm.Apply(nil, rv, s.dt)[a:b]
+		buf.p = s.sm.Apply(grow(buf.p, n), buf.rp, s.dt)
+		buf.v = s.sm.Apply(grow(buf.v, n), buf.rv, s.dt)
+		f.P, f.V = buf.p[a:b], buf.v[a:b]
 	} else {
-		f.P, f.V = rp[a:b], rv[a:b]
+		f.P, f.V = buf.rp[a:b], buf.rv[a:b]
 	}
 	if r.hasAortic {
-		pao := r.pao.window(nil, g+lo, g+hi)
+		buf.pa = r.pao.window(buf.pa, g+lo, g+hi)
+		pao := buf.pa
 		if s.smooth {
-			pao = s.sm.Apply(nil, pao, s.dt)
+			buf.pao = s.sm.Apply(grow(buf.pao, n), buf.pa, s.dt)
+			pao = buf.pao
 		}
 		f.Pao = pao[a:b]
 	}

@@ -1,9 +1,6 @@
 package analysis
 
-import (
-	"fmt"
-	"slices"
-)
+import "fmt"
 
 // MinDuration is the shortest recording analysed, s.
 const MinDuration = 1.0
@@ -35,6 +32,7 @@ func (r *Recording) checkPlausible(rd *reader) error {
 		return &InputError{File: r.Source, Line: max(c.line, 1), Col: max(c.col, 1), Column: name, Msg: fmt.Sprintf(format, a...)}
 	}
 	p1, p99 := percentiles(&r.p)
+	r.pRange = [2]float64{p1, p99}
 	switch {
 	case p99-p1 < 5:
 		return perr(1, "LV pressure hardly varies (%.3g to %.3g mmHg); is it the right column?", p1, p99)
@@ -49,6 +47,7 @@ func (r *Recording) checkPlausible(rd *reader) error {
 		r.warnf("LV pressure falls to %.3g mmHg: the transducer may not be zeroed; pressures carry the offset", p1)
 	}
 	v1, v99 := percentiles(&r.v)
+	r.vRange = [2]float64{v1, v99}
 	sp := r.Species
 	switch {
 	case v99-v1 <= 1e-3*max(v99, -v1):
@@ -83,11 +82,5 @@ func (r *Recording) checkPlausible(rd *reader) error {
 
 // percentiles returns the 1st and 99th percentiles of a column.
 func percentiles(c *column) (lo, hi float64) {
-	s := make([]float32, 0, c.n)
-	for _, b := range c.blocks {
-		s = append(s, b[:min(blockSize, c.n-len(s))]...)
-	}
-	slices.Sort(s)
-	n := len(s)
-	return float64(s[n/100]), float64(s[n-1-n/100])
+	return quantileOf(c.n, c.at, 0.01), quantileOf(c.n, c.at, 0.99)
 }

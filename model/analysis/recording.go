@@ -35,6 +35,8 @@ type Recording struct {
 
 	p, v, pao column
 	hasAortic bool
+	// 1st and 99th percentiles of pressure and volume (set by checkPlausible).
+	pRange, vRange [2]float64
 }
 
 // Calibration of conductance volumes (docs/science.md §13): the parallel

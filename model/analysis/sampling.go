@@ -92,22 +92,9 @@ func (r *Recording) setTimeline(t *times, o ReadOptions, rd *reader) error {
 	return nil
 }
 
-// medianInterval is the median of the sampling intervals. They are sorted as
-// float32 (half the memory); the one returned is a float64 interval equal to
-// the median in float32.
+// medianInterval is the median of the sampling intervals.
 func medianInterval(t *times) float64 {
-	d := make([]float32, t.n-1)
-	for i := range d {
-		d[i] = float32(t.at(i+1) - t.at(i))
-	}
-	slices.Sort(d)
-	m := d[len(d)/2]
-	for i := 0; i+1 < t.n; i++ {
-		if dt := t.at(i+1) - t.at(i); float32(dt) == m {
-			return dt
-		}
-	}
-	return float64(m)
+	return quantileOf(t.n-1, func(i int) float64 { return t.at(i+1) - t.at(i) }, 0.5)
 }
 
 // resample puts the segments marked in need on a grid of step med (linear

@@ -31,7 +31,7 @@ func volumeUnitFor(r *Recording) VolumeUnit {
 		}
 		return unitML
 	}
-	if _, hi := percentiles(&r.v); hi < smallHeart {
+	if r.vRange[1] < smallHeart {
 		return unitUL
 	}
 	return unitML

@@ -66,7 +66,7 @@ func (e *SmoothError) Error() string {
 // below 20 %: hysteresis against noise), keeping intervals of rates within
 // the species' search range.
 func beatPeriod(r *Recording) (float64, error) {
-	lo, hi := percentiles(&r.p)
+	lo, hi := r.pRange[0], r.pRange[1]
 	up, down := lo+0.45*(hi-lo), lo+0.2*(hi-lo)
 	hrLo, hrHi := r.Species.hrRange()
 	minT, maxT := 60/hrHi, 60/hrLo
