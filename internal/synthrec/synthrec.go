@@ -76,7 +76,9 @@ type Recording struct {
 // concatenated beats on a uniform grid at spec.Rate.
 func Make(spec Spec) (*Recording, error) {
 	rec := &Recording{}
-	err := run(spec, func(b *model.Beat, start float64) { rec.Beats, rec.Starts = append(rec.Beats, b), append(rec.Starts, start) },
+	err := run(spec, func(b *model.Beat, start float64) {
+		rec.Beats, rec.Starts = append(rec.Beats, b), append(rec.Starts, start)
+	},
 		func(t, p, v, pao float64) {
 			rec.T, rec.P, rec.V, rec.Pao = append(rec.T, t), append(rec.P, p), append(rec.V, v), append(rec.Pao, pao)
 		})
