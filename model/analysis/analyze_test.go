@@ -189,7 +189,9 @@ func TestAnalyzeWarnsOfNoiseDriftAndOffset(t *testing.T) {
 	spec := occlusion(presetParams(t, "normal"))
 	spec.SteadyBeats, spec.Seed = 14, 3
 	spec.NoiseP, spec.NoiseV = 4, 5
-	spec.DriftP, spec.DriftV, spec.OffsetV = 8, 12, -60
+	// The drifts must stand out of the noise of 14 steady beats (a t-test at
+	// the 1 % level): 24 mL over the recording is about 1 mL a second.
+	spec.DriftP, spec.DriftV, spec.OffsetV = 8, 24, -60
 	_, rec := makeRecording(t, spec, ReadOptions{})
 	a, err := Analyze(rec, Options{})
 	if err != nil {
@@ -204,7 +206,7 @@ func TestAnalyzeWarnsOfNoiseDriftAndOffset(t *testing.T) {
 	if math.Abs(a.NoiseP-4)/4 > 0.2 || math.Abs(a.NoiseV-5)/5 > 0.2 {
 		t.Errorf("noise estimated as %.3g mmHg, %.3g mL; added 4 and 5", a.NoiseP, a.NoiseV)
 	}
-	// The volume drift (12 mL over the recording) really does move the
+	// The volume drift (24 mL over the recording) really does move the
 	// slope; the warning must say by how much.
 	if !strings.Contains(w, "moving the ESPVR slope by about") {
 		t.Errorf("drift warning does not quantify its effect:\n%s", w)

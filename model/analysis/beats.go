@@ -154,6 +154,14 @@ func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*
 		b.Dropped = why
 		beats = append(beats, b)
 	}
+	// A beat must start and end at least half a filter window inside the
+	// segment: nearer its ends the filters fit one-sided polynomials.
+	edge := max(sig.sm.Window, sig.ts.Window) / 2
+	for j := range eds {
+		if eds[j] >= 0 && (eds[j] < edge || eds[j] > n-1-edge) {
+			eds[j] = -1
+		}
+	}
 	first := -1
 	for j := range ups {
 		if eds[j] >= 0 {

@@ -47,6 +47,12 @@ const (
 	MaxFileBytes = MaxSamples * 64
 )
 
+// maxSamples and maxFileBytes are MaxSamples and MaxFileBytes, lowered by tests.
+var (
+	maxSamples   = MaxSamples
+	maxFileBytes = int64(MaxFileBytes)
+)
+
 // largeRecording is the number of samples beyond which reading ends with a
 // garbage collection (15 minutes at 1 kHz).
 const largeRecording = 1 << 20
@@ -134,7 +140,7 @@ type capReader struct {
 var errTooLarge = errors.New("too large")
 
 func (c *capReader) Read(p []byte) (int, error) {
-	if c.n > MaxFileBytes {
+	if c.n > maxFileBytes {
 		return 0, errTooLarge
 	}
 	n, err := c.r.Read(p)
@@ -159,7 +165,7 @@ func (rd *reader) explain(err error) error {
 	case errors.As(err, &ie):
 		return err
 	case errors.Is(err, errTooLarge):
-		return rd.lr.errf(1, "the file is larger than %d MiB, more than a recording may have (an endless stream or a device?)", MaxFileBytes>>20)
+		return rd.lr.errf(1, "the file is larger than %d MiB, more than a recording may have (an endless stream or a device?)", maxFileBytes>>20)
 	}
 	return fmt.Errorf("cannot read recording %s: %w", rd.name, err)
 }
@@ -282,7 +288,7 @@ func (rd *reader) read() (*Recording, error) {
 	var t times
 	var vals [4]float64
 	var cells []cell
-	missing, row, prevLine := 0, 0, 0
+	missing, row, prevLine, skipped := 0, 0, 0, 0
 	lr := rd.lr
 	for {
 		line, err := lr.next()
@@ -293,14 +299,20 @@ func (rd *reader) read() (*Recording, error) {
 			return nil, err
 		}
 		if isComment(line) {
+			if skipped++; skipped > maxLeadLines {
+				return nil, lr.errf(1, "%d blank or comment lines in a row: not a recording (or an endless stream)", maxLeadLines)
+			}
 			continue
 		}
+		skipped = 0
 		var at int
 		var msg string
 		if cells, at, msg = splitLine(line, rd.delim, cells); at >= 0 {
 			return nil, lr.errf(runeCol(line, at), "%s", msg)
 		}
-		row++
+		if row++; row > maxSamples {
+			return nil, lr.errf(1, "more than %d rows, more than a recording may have (4.6 hours at 1 kHz); split the file", maxSamples)
+		}
 		if len(cells) < need {
 			return nil, lr.errf(runeCol(line, len(line)), "%d fields, but the columns read need %d (the header has %d)", len(cells), need, len(names))
 		}
@@ -338,9 +350,6 @@ func (rd *reader) read() (*Recording, error) {
 		} else if t.n > 0 && !(vals[0] > t.at(t.n-1)) {
 			return nil, &InputError{File: rd.name, Line: lr.line, Col: runeCol(line, cells[c.time].at), Column: names[c.time], Msg: fmt.Sprintf(
 				"time %g s is not after the previous sample's %g s (line %d); times must increase", vals[0], t.at(t.n-1), prevLine)}
-		}
-		if t.n >= MaxSamples {
-			return nil, lr.errf(1, "more than %d samples, more than a recording may have (4.6 hours at 1 kHz); split the file", MaxSamples)
 		}
 		t.push(vals[0])
 		rec.p.push(vals[1])

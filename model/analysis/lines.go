@@ -50,6 +50,12 @@ func (lr *lineReader) start() error {
 		lr.line = 1
 		return lr.errf(1, "the file looks like UTF-16 text (every other byte is NUL); save or export it as UTF-8 or ASCII CSV")
 	}
+	if i := bytes.IndexByte(head, 0); i >= 0 {
+		// Binary data (a device, an image): say so before looking for lines.
+		nl := bytes.LastIndexByte(head[:i], '\n')
+		lr.line = bytes.Count(head[:i], []byte{'\n'}) + 1
+		return lr.errf(runeCol(head[nl+1:], i-nl-1), "NUL byte: this is a binary file (or UTF-16 text), not a CSV text file")
+	}
 	return nil
 }
 

@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // Thresholds of the data-quality warnings (common practice, no source).
@@ -15,7 +16,7 @@ const (
 	driftEes    = 0.02 // drift that would move the ESPVR slope by this fraction
 	driftSpan   = 3    // s: shorter steady time is not judged for drift
 	minDriftBts = 4    // steady beats needed to judge drift
-	driftSig    = 2.5  // a trend counts when its slope exceeds this many standard errors
+	driftLevel  = 0.01 // a trend counts when a two-sided t-test rejects no trend at this level
 )
 
 // Drift is the baseline drift of a recording, measured on its steady
@@ -33,7 +34,7 @@ type Drift struct {
 type Trend struct {
 	Slope       float64 // per second
 	SE          float64
-	Significant bool // |Slope| > driftSig·SE
+	Significant bool // the t-test of no trend fails at driftLevel
 }
 
 // checkQuality warns of noise, baseline drift and volume offsets the
@@ -120,8 +121,10 @@ func pooledTrend(t, y []float64, segs int) Trend {
 		rss += r * r
 		stt += t[i] * t[i]
 	}
-	se := math.Sqrt(rss/float64(len(t)-segs-1)) / math.Sqrt(stt)
-	return Trend{Slope: beta, SE: se, Significant: math.Abs(beta) > driftSig*se}
+	dof := float64(len(t) - segs - 1)
+	se := math.Sqrt(rss/dof) / math.Sqrt(stt)
+	crit := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: dof}.Quantile(1 - driftLevel/2)
+	return Trend{Slope: beta, SE: se, Significant: math.Abs(beta) > crit*se}
 }
 
 // checkDrift warns of a significant drift with its effect: over a preload
