@@ -74,7 +74,7 @@ func TestAnalyzeJSON(t *testing.T) {
 			Last  int `json:"last_beat"`
 		} `json:"runs"`
 		SteadyMedian map[string]any `json:"steady_median"`
-		V0Source string `json:"v0_source"`
+		V0Source     string         `json:"v0_source"`
 	}
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatalf("not JSON: %v", err)
