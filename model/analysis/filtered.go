@@ -3,7 +3,6 @@ package analysis
 import (
 	"fmt"
 	"math"
-	"slices"
 
 	"gonum.org/v1/gonum/floats"
 
@@ -190,8 +189,3 @@ func (f filtered) samples() model.BeatSamples {
 
 // time of sample i of the segment, s.
 func (s *signals) time(i int) float64 { return s.seg.Start + float64(i)*s.dt }
-
-// minMax returns the smallest and largest values of x.
-func minMax(x []float64) (lo, hi float64) {
-	return slices.Min(x), slices.Max(x)
-}

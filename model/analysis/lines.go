@@ -75,9 +75,6 @@ func looksUTF16(b []byte) bool {
 	return nul[0] > half*3/4 && nul[1] == 0 || nul[1] > half*3/4 && nul[0] == 0
 }
 
-// errLineEnds marks a file whose lines end with CR alone.
-var errLineEnds = errors.New("CR line ends")
-
 // next returns the next line (valid until the following call), or io.EOF.
 func (lr *lineReader) next() ([]byte, error) {
 	b, err := lr.br.ReadSlice('\n')

@@ -28,9 +28,6 @@ func (c *column) push(x float64) {
 // at returns sample i.
 func (c *column) at(i int) float64 { return float64(c.blocks[i>>blockBits][i&blockMask]) }
 
-// set replaces sample i.
-func (c *column) set(i int, x float64) { c.blocks[i>>blockBits][i&blockMask] = float32(x) }
-
 // window copies samples [from, to) into dst (grown as needed) as float64.
 func (c *column) window(dst []float64, from, to int) []float64 {
 	dst = dst[:0]
