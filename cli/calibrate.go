@@ -102,7 +102,7 @@ func runCalibrate(env *Env, args []string) error {
 			{"saline", object{{"slope", number(fit.Slope)}, {"intercept_ml", number(fit.Intercept)}, {"r2", number(fit.R2)},
 				{"beats", fit.Beats}, {"edv_rise", number(fit.EDVRise)}, {"method", "Baan et al. 1984: V_es = slope·V_ed + intercept meets V_es = V_ed at the parallel volume"}}},
 			{"calibration_file", nullable(*out)},
-			{"warnings", nonNil(a.Warnings)},
+			{"warnings", nonNil(a.Recording.Warnings)},
 		})
 	}
 	w := env.Stdout
@@ -115,7 +115,9 @@ func runCalibrate(env *Env, args []string) error {
 	} else {
 		fmt.Fprintln(w, "α not found: give --reference-sv ML (a flow probe's or thermodilution's stroke volume) to find it; 1 is written.")
 	}
-	for _, x := range a.Warnings {
+	// The reader's warnings only: the bolus looks like a preload change to
+	// the analysis, whose warnings about it mean nothing here.
+	for _, x := range a.Recording.Warnings {
 		fmt.Fprintf(w, "Warning: %s\n", x)
 	}
 	if *out != "" {

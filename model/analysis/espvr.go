@@ -84,7 +84,7 @@ func iterateESPVR(beats []model.BeatSamples, v0Guess float64, method string,
 			vs[i], ps[i] = p.V, p.P
 		}
 		if lo, hi := floats.Min(vs), floats.Max(vs); !(hi-lo >= MinESPVRSpan*(hi-v0)) {
-			return ESPVRFit{}, fmt.Errorf("end-systolic volumes span only %.2g mL (need %.0f %% of %.3g mL): preload did not change enough", hi-lo, MinESPVRSpan*100, hi-v0)
+			return ESPVRFit{}, fmt.Errorf("preload did not change enough: end-systolic volumes span only %.2g mL (need %.0f %% of %.3g mL)", hi-lo, MinESPVRSpan*100, hi-v0)
 		}
 		next, err := relate(vs, ps, &fit)
 		if err != nil {
