@@ -98,7 +98,8 @@ func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
 	a, err := analysis.Analyze(rec, o)
 	var se *analysis.SmoothError
 	if errors.As(err, &se) {
-		return nil, usagef("--smooth-ms %g: %v", r.smoothMS, err)
+		return nil, usagef("--smooth-ms %g: allowed %.3g to %.3g ms for this recording (%d samples to 1/8 of its %.0f-ms beats)",
+			r.smoothMS, se.Min*1e3, se.Max*1e3, analysis.MinSmoothSamples, se.Period*1e3)
 	}
 	return a, err
 }

@@ -10,8 +10,8 @@ import (
 )
 
 // SalineFit is the parallel volume of a conductance catheter found from a
-// hypertonic-saline run by the method of Baan et al. 1984 (Circulation
-// 70:812; docs/science.md §13). The bolus raises the blood's conductivity for
+// hypertonic-saline run by the method of Baan et al. 1984 (Circulation;
+// docs/science.md §13). The bolus raises the blood's conductivity for
 // a few beats, and with it the signal of the blood in the ventricle, not that
 // of the tissue around it: each beat's end-diastolic and end-systolic
 // signals, V_ed = k·EDV + Vp and V_es = k·ESV + Vp with k rising, lie on a

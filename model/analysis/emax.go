@@ -8,8 +8,8 @@ import (
 )
 
 // EmaxFit is the time-varying elastance of a ventricle found across the
-// beats of an occlusion run (the isochronal method of Suga & Sagawa 1974,
-// Circ Res 35:117; docs/science.md §13): at each time t after end-diastole a
+// beats of an occlusion run (the isochronal method of Suga & Sagawa, Circ
+// Res 1973–1974; docs/science.md §1 and §13): at each time t after end-diastole a
 // line P = E(t)·(V − V0(t)) is fitted through the beats' samples at that
 // time; Emax is the largest E(t) during ejection, at TMax.
 type EmaxFit struct {

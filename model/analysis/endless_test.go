@@ -43,13 +43,14 @@ func (r random) Read(p []byte) (int, error) {
 
 // counting is an endless stream of valid rows with increasing time.
 type counting struct {
-	buf []byte
-	i   int
+	buf     []byte
+	i       int
+	started bool
 }
 
 func (c *counting) Read(p []byte) (int, error) {
-	if len(c.buf) == 0 {
-		c.buf = []byte("time_s,pressure_mmhg,volume_ml\n")
+	if !c.started {
+		c.buf, c.started = []byte("time_s,pressure_mmhg,volume_ml\n"), true
 	}
 	n := 0
 	for n < len(p) {

@@ -17,6 +17,9 @@ const sgOrder = 3
 // from the data (a cubic through 4 points is the data itself).
 const minWindow = sgOrder + 2
 
+// MinSmoothSamples is the shortest smoothing window allowed, in samples.
+const MinSmoothSamples = minWindow
+
 // signals are one segment of a recording with its filters. The detection
 // signals (dP/dt smoothed for finding beats, and the volume as measured) are
 // kept for the whole segment as float32; the samples a beat is measured

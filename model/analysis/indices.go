@@ -8,7 +8,7 @@ import (
 )
 
 // PRSWFit is preload-recruitable stroke work (Glower et al. 1985,
-// Circulation 71:994; docs/science.md §13): stroke work against end-diastolic
+// Circulation; docs/science.md §13): stroke work against end-diastolic
 // volume across an occlusion run, SW = Mw·(EDV − Vw), fitted by least squares.
 type PRSWFit struct {
 	Mw    float64 // slope, mmHg (mmHg·mL per mL)
@@ -36,7 +36,7 @@ type SlopeFit struct {
 }
 
 // FitDPdtEDV fits dP/dt max against end-diastolic volume across an occlusion
-// run (Little 1985, Circulation 71:1097; docs/science.md §13): the slope, in
+// run (Little 1985, Circulation; docs/science.md §13): the slope, in
 // mmHg/s per mL, is an index of contractility little moved by preload.
 func FitDPdtEDV(edv, dpdtMax []float64) (SlopeFit, error) {
 	alpha, beta, r2, err := line(edv, dpdtMax, "dP/dt max", "end-diastolic volume")
