@@ -2,6 +2,7 @@ package cli
 
 import (
 	"fmt"
+	"os"
 	"path/filepath"
 
 	"pvcouple/model/analysis"
@@ -46,9 +47,10 @@ func runCalibrate(env *Env, args []string) error {
 	if *svFrom != "" && *refSV == 0 {
 		return usagef("--sv-from needs --reference-sv")
 	}
-	if *out != "" {
-		if err := checkOutput(*out, "o", *force); err != nil {
-			return err
+	if *out != "" && !*force {
+		// Refused before the work, not after it.
+		if _, err := os.Lstat(*out); err == nil {
+			return fmt.Errorf("-o %s: file exists (choose another name, or overwrite with --force)", *out)
 		}
 	}
 	a, err := rf.analyze(path)

@@ -57,16 +57,13 @@ func (r *Recording) checkPlausible(rd *reader) error {
 	case v99 <= 0:
 		return perr(2, "LV volume is never above 0 mL (up to %.4g mL): the volume signal has an offset; correct it with --volume-offset or --parallel-volume", v99)
 	case sp != nil && v99 > unitFactor*sp.MaxEDV:
-		hint := "check the column and its unit"
+		hint := "is --species right? Else check the column and its unit"
 		if v99/1000 <= sp.MaxEDV*unitFactor {
-			hint = "the values look like µL: give --volume-unit ul or name the column e.g. volume_ul"
+			hint = "the values look like µL: give --volume-unit ul or name the column e.g. volume_ul (or check --species)"
 		}
 		return perr(2, "LV volume reaches %.4g mL, %.0f times the largest %s heart's %.3g mL (%s): %s", v99, v99/sp.MaxEDV, sp.Name, sp.MaxEDV, sp.Source, hint)
 	case sp != nil && v99 < sp.MinEDV/unitFactor:
-		hint := "check the column, its unit and --species"
-		if v99*1000 >= sp.MinEDV/unitFactor {
-			hint = "the values look like mL read as µL: check the column's unit (--volume-unit ml)"
-		}
+		hint := "is --species right? Else check the column and its unit (--volume-unit)"
 		return perr(2, "LV volume reaches only %.4g mL, far below a %s heart's %.3g mL (%s): %s", v99, sp.Name, sp.MinEDV, sp.Source, hint)
 	case v1 < 0:
 		r.warnf("LV volume falls to %.3g mL: the volume signal has an offset (uncorrected parallel conductance?); "+
