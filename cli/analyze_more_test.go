@@ -13,25 +13,33 @@ import (
 )
 
 // writeSpec writes a synthetic recording (made by the model; the spec's seed
-// is its noise) with volumes multiplied by vFactor under the given header.
-func writeSpec(t *testing.T, spec synthrec.Spec, volumeCol string, vFactor float64) string {
+// is its noise) under the given time, pressure and volume header, volumes
+// multiplied by vFactor.
+func writeSpec(t *testing.T, spec synthrec.Spec, header [3]string, vFactor float64) string {
 	t.Helper()
 	sr, err := synthrec.Make(spec)
 	if err != nil {
 		t.Fatal(err)
 	}
 	path := filepath.Join(t.TempDir(), "rec.csv")
-	f, err := os.Create(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	if err := sr.WriteCSVScaled(f, "time_s", "pressure_mmhg", volumeCol, "", vFactor); err != nil {
+	if err := sr.WriteFile(path, header[0], header[1], header[2], vFactor); err != nil {
 		t.Fatal(err)
 	}
 	return path
 }
 
+// runOK runs the command line and returns its output, failing the test on a
+// non-zero exit.
+func runOK(t *testing.T, args ...string) string {
+	t.Helper()
+	code, out, errs := runCLI(t, args...)
+	if code != 0 {
+		t.Fatalf("%v: exit %d: %s", args, code, errs)
+	}
+	return out
+}
+
+// normalSpec is 10 steady beats of the normal preset at 1 kHz (seed 1).
 func normalSpec(t *testing.T) synthrec.Spec {
 	sc, err := presets.Get("normal")
 	if err != nil {
@@ -43,11 +51,8 @@ func normalSpec(t *testing.T) synthrec.Spec {
 // A steady recording has no ESPVR: Ees is the single-beat estimate, and the
 // JSON and the table say so beside Ees and Ea/Ees, with a caution.
 func TestAnalyzeLabelsEstimates(t *testing.T) {
-	path := writeSpec(t, normalSpec(t), "volume_ml", 1)
-	code, out, errs := runCLI(t, "analyze", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	path := writeRecording(t, 10, 0)
+	out := runOK(t, "analyze", path, "--format", "json")
 	var doc struct {
 		EesSource string           `json:"ees_source"`
 		Known     map[string]any   `json:"known"`
@@ -69,8 +74,8 @@ func TestAnalyzeLabelsEstimates(t *testing.T) {
 	if !strings.Contains(strings.Join(doc.Notes, " "), "Ea/Ees from it is an estimate") {
 		t.Errorf("no caution in the notes: %v", doc.Notes)
 	}
-	code, out, _ = runCLI(t, "analyze", path)
-	if code != 0 || !strings.Contains(out, "(estimate: Ees from one beat, Chen 2001 — caution)") || !strings.Contains(out, "an estimate (Chen et al. 2001") {
+	out = runOK(t, "analyze", path)
+	if !strings.Contains(out, "(estimate: Ees from one beat, Chen 2001 — caution)") || !strings.Contains(out, "an estimate (Chen et al. 2001") {
 		t.Errorf("table lacks the estimate labels:\n%s", out)
 	}
 }
@@ -83,20 +88,14 @@ func TestAnalyzeSmallHeartUnits(t *testing.T) {
 	spec.Params.HeartRate = 60
 	spec.OcclusionBeats, spec.RecoveryBeats = 10, 4
 	spec.TimeScale, spec.VolumeScale, spec.Rate, spec.NoiseV = 0.1, 1.0/3000, 2000, 0.3e-3
-	path := writeSpec(t, spec, "LV Volume [µL]", 1000)
-	code, out, errs := runCLI(t, "analyze", path, "--species", "mouse")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	path := writeSpec(t, spec, [3]string{"time_s", "pressure_mmhg", "LV Volume [µL]"}, 1000)
+	out := runOK(t, "analyze", path, "--species", "mouse")
 	for _, want := range []string{"Volumes in µL", "EDV µL", "mmHg/µL", "(600 bpm)"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}
 	}
-	code, out, errs = runCLI(t, "analyze", path, "--species", "mouse", "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out = runOK(t, "analyze", path, "--species", "mouse", "--format", "json")
 	var doc struct {
 		Recording struct {
 			Shown   string `json:"volumes_shown_in"`
@@ -126,7 +125,7 @@ func TestCalibrateAndAnalyze(t *testing.T) {
 	spec.SteadyBeats = 28
 	spec.SalineStart, spec.SalineBeats, spec.SalineGain = 6, 16, 0.25
 	spec.OffsetV, spec.Alpha = 50, 0.8
-	path := writeSpec(t, spec, "volume_ml", 1)
+	path := writeSpec(t, spec, [3]string{"time_s", "pressure_mmhg", "volume_ml"}, 1)
 	sc, _ := presets.Get("normal")
 	ref, err := synthrec.Make(synthrec.Spec{Params: sc.Params, SteadyBeats: 3, Rate: 1000})
 	if err != nil {
@@ -138,10 +137,7 @@ func TestCalibrateAndAnalyze(t *testing.T) {
 	}
 	sv := formatCSV(hi - lo)
 	cal := filepath.Join(t.TempDir(), "cal.yaml")
-	code, out, errs := runCLI(t, "calibrate", path, "--reference-sv", sv, "-o", cal, "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out := runOK(t, "calibrate", path, "--reference-sv", sv, "-o", cal, "--format", "json")
 	var doc struct {
 		Vp    float64 `json:"parallel_volume_ml"`
 		Alpha float64 `json:"alpha"`
@@ -155,10 +151,7 @@ func TestCalibrateAndAnalyze(t *testing.T) {
 	if code, _, errs := runCLI(t, "calibrate", path, "-o", cal); code != 1 || !strings.Contains(errs, "file exists") {
 		t.Errorf("replaced without --force: exit %d %s", code, errs)
 	}
-	code, out, errs = runCLI(t, "analyze", path, "--calibration", cal, "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out = runOK(t, "analyze", path, "--calibration", cal, "--format", "json")
 	var an struct {
 		Recording struct {
 			Cal map[string]any `json:"calibration"`
@@ -176,7 +169,7 @@ func TestCalibrateAndAnalyze(t *testing.T) {
 	if code, _, errs := runCLI(t, "analyze", path, "--calibration", bad); code != 1 || !strings.Contains(errs, "bad.yaml:3:8: column \"alpha\": 0.05 is out of range; allowed 0.1 to 5") {
 		t.Errorf("bad calibration: exit %d %s", code, errs)
 	}
-	if code, _, errs := runCLI(t, "calibrate", writeSpec(t, normalSpec(t), "volume_ml", 1)); code != 1 || !strings.Contains(errs, "no saline bolus") {
+	if code, _, errs := runCLI(t, "calibrate", writeRecording(t, 10, 0)); code != 1 || !strings.Contains(errs, "no saline bolus") {
 		t.Errorf("steady file calibrated: exit %d %s", code, errs)
 	}
 }

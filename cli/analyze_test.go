@@ -10,46 +10,25 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 
-	"pvcouple/internal/synthrec"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
 
 // writeRecording writes a synthetic recording made by the model (normal
-// preset; steady beats, then a caval occlusion of our own when occlusion > 0)
-// and returns its path.
+// preset; steady beats, then a caval occlusion of our own when occlusion > 0;
+// seed 1) and returns its path.
 func writeRecording(t *testing.T, steady, occlusion int, header ...string) string {
 	t.Helper()
-	sc, err := presets.Get("normal")
-	if err != nil {
-		t.Fatal(err)
-	}
-	sr, err := synthrec.Make(synthrec.Spec{Params: sc.Params, SteadyBeats: steady, OcclusionBeats: occlusion, OcclusionStep: 0.88,
-		Rate: 1000, Seed: 1, NoiseP: 0.5, NoiseV: 0.5})
-	if err != nil {
-		t.Fatal(err)
-	}
+	spec := normalSpec(t)
+	spec.SteadyBeats, spec.OcclusionBeats = steady, occlusion
 	if len(header) == 0 {
 		header = []string{"time_s", "pressure_mmhg", "volume_ml"}
 	}
-	path := filepath.Join(t.TempDir(), "rec.csv")
-	f, err := os.Create(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	if err := sr.WriteCSV(f, header[0], header[1], header[2], ""); err != nil {
-		t.Fatal(err)
-	}
-	return path
+	return writeSpec(t, spec, [3]string(header), 1)
 }
 
 func TestAnalyzeJSON(t *testing.T) {
-	path := writeRecording(t, 8, 10)
-	code, out, errs := runCLI(t, "analyze", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out := runOK(t, "analyze", writeRecording(t, 8, 10), "--format", "json")
 	var doc struct {
 		Beats []map[string]any `json:"beats"`
 		ESPVR *struct {

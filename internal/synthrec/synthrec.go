@@ -15,6 +15,7 @@ import (
 	"io"
 	"math"
 	"math/rand/v2"
+	"os"
 	"strconv"
 
 	"gonum.org/v1/gonum/interp"
@@ -276,4 +277,17 @@ func (r *Recording) WriteCSVScaled(w io.Writer, timeCol, pressureCol, volumeCol,
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// WriteFile writes the recording to a new file at path (see WriteCSVScaled).
+func (r *Recording) WriteFile(path, timeCol, pressureCol, volumeCol string, vFactor float64) error {
+	f, err := os.Create(path)
+	if err != nil {
+		return err
+	}
+	if err := r.WriteCSVScaled(f, timeCol, pressureCol, volumeCol, "", vFactor); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
 }

@@ -216,14 +216,7 @@ func TestAnalyzeWarnsOfNoiseDriftAndOffset(t *testing.T) {
 // A steady recording has no ESPVR (with a note saying why); V0 is then
 // unknown and Ees comes from the single-beat estimate.
 func TestAnalyzeSteadyRecording(t *testing.T) {
-	spec := occlusion(presetParams(t, "normal"))
-	spec.OcclusionBeats, spec.RecoveryBeats = 0, 0
-	spec.NoiseP, spec.NoiseV = 0.5, 0.5
-	_, rec := makeRecording(t, spec, ReadOptions{})
-	a, err := Analyze(rec, Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, _, a := analysedSteady(t, "normal", 0.5, 1)
 	if a.ESPVR != nil || a.EDPVR != nil || !strings.Contains(strings.Join(a.Notes, " "), "no ESPVR") {
 		t.Errorf("steady recording: ESPVR %v, notes %v", a.ESPVR, a.Notes)
 	}
@@ -245,13 +238,7 @@ func TestAnalyzeSteadyRecording(t *testing.T) {
 // of the stand-ins, not of Chen's method.
 func TestSingleBeatInputsOnModel(t *testing.T) {
 	for _, name := range []string{"normal", "hfref", "hypertensive"} {
-		spec := occlusion(presetParams(t, name))
-		spec.OcclusionBeats, spec.RecoveryBeats = 0, 0
-		sr, rec := makeRecording(t, spec, ReadOptions{})
-		a, err := Analyze(rec, Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		sr, _, a := analysedSteady(t, name, 0, 1)
 		m, vt := sr.Beats[0].Metrics, sr.Beats[0].Valves
 		tnd := vt.AorticOpen / vt.AorticClose
 		if sb := a.SingleBeat; sb == nil || math.Abs(sb.Pd/m.DBP-1) > 0.1 || math.Abs(sb.TNd/tnd-1) > 0.1 || sb.PFrom != "lv" {

@@ -76,14 +76,7 @@ func TestSalineRunRecoversParallelVolume(t *testing.T) {
 
 // A steady recording is no saline run: FitSaline says so.
 func TestSalineNeedsABolus(t *testing.T) {
-	spec := occlusion(presetParams(t, "normal"))
-	spec.OcclusionBeats, spec.RecoveryBeats = 0, 0
-	spec.NoiseP, spec.NoiseV = 0.5, 0.5
-	_, rec := makeRecording(t, spec, ReadOptions{})
-	a, err := Analyze(rec, Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, _, a := analysedSteady(t, "normal", 0.5, 1)
 	if _, err := FitSaline(a); err == nil || !strings.Contains(err.Error(), "no saline bolus") {
 		t.Errorf("steady recording: %v", err)
 	}

@@ -12,14 +12,7 @@ import (
 // noise hides: its end reads up to 5 % early), with noise added.
 func TestEjectionTimingMatchesModelValves(t *testing.T) {
 	for _, name := range []string{"normal", "hfref", "hfpef", "hypertensive", "exercise", "vasodilated"} {
-		spec := occlusion(presetParams(t, name))
-		spec.OcclusionBeats, spec.RecoveryBeats = 0, 0
-		spec.NoiseP, spec.NoiseV, spec.Seed = 1, 1, 4
-		sr, rec := makeRecording(t, spec, ReadOptions{})
-		a, err := Analyze(rec, Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		sr, _, a := analysedSteady(t, name, 1, 4)
 		vt := sr.Beats[0].Valves
 		period := sr.Beats[0].Period
 		checked := 0
@@ -63,14 +56,7 @@ func beatAt(starts []float64, x float64) int {
 // SV and EF Chen's formula also uses.
 func TestSingleBeatStableAcrossSmoothing(t *testing.T) {
 	for _, name := range []string{"normal", "hfref", "hfpef", "hypertensive", "exercise"} {
-		spec := occlusion(presetParams(t, name))
-		spec.OcclusionBeats, spec.RecoveryBeats = 0, 0
-		spec.NoiseP, spec.NoiseV, spec.Seed = 1, 1, 2
-		_, rec := makeRecording(t, spec, ReadOptions{})
-		ref, err := Analyze(rec, Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		_, rec, ref := analysedSteady(t, name, 1, 2)
 		w, _ := newWindows(ref.Period, rec.Rate, 0)
 		for _, sm := range []float64{w.minSmooth, 0.5 * ref.Options.SmoothWindow, 2 * ref.Options.SmoothWindow, w.maxSmooth} {
 			a, err := Analyze(rec, Options{SmoothWindow: sm})

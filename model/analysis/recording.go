@@ -67,8 +67,8 @@ type Gap struct {
 type Columns struct {
 	Time, Pressure, Volume, Aortic     string // header names; Time empty when --rate gave the timing
 	TimeUnit, PressureUnit, VolumeUnit string // units the values were read in
-	// Cell gives, for time, pressure, volume and aortic pressure, the line and
-	// column of the header cell, for messages.
+	// cells are the places of the header cells of time, pressure, volume and
+	// aortic pressure, for messages.
 	cells [4]pos
 }
 
