@@ -80,8 +80,10 @@ func analysisObject(path, calFile string, a *analysis.Analysis) object {
 		species = r.Species.Name
 	}
 	var prsw, dpdt, emax any
-	if len(a.Runs) > 0 {
-		prsw, dpdt, emax = prswObject(a.Runs[0].PRSW), dpdtObject(a.Runs[0].DPdtEDV), emaxObject(a.Runs[0].Emax)
+	for _, run := range a.Runs {
+		if len(a.PreloadRun) > 0 && run.Beats[0] == a.PreloadRun[0] {
+			prsw, dpdt, emax = prswObject(run.PRSW), dpdtObject(run.DPdtEDV), emaxObject(run.Emax)
+		}
 	}
 	return object{
 		{"file", path},

@@ -49,8 +49,8 @@ type Analysis struct {
 	// Runs are the preload runs (occlusions and releases), in time order,
 	// each with its own fits; none when the recording is steady.
 	Runs []*Run
-	// PreloadRun, ESPVR and EDPVR are those of the first run (nil or empty
-	// without one).
+	// PreloadRun, ESPVR and EDPVR are those of the first run with an ESPVR
+	// (else the first run; nil or empty without one).
 	PreloadRun []*Beat
 	ESPVR      *ESPVRFit
 	EDPVR      *EDPVRFit
@@ -298,8 +298,8 @@ func (a *Analysis) checkOrientation() error {
 	return nil
 }
 
-// nearestKnown gives each beat the Known of the run nearest to it in beats
-// (nil when there is no fitted run: all beats use a.Known).
+// nearestKnown gives each beat the Known of the fitted run nearest to it in
+// beats (nil when fewer than two runs are fitted: all beats use a.Known).
 func (a *Analysis) nearestKnown() func(*Beat) model.Known {
 	var fitted []*Run
 	for _, run := range a.Runs {

@@ -61,6 +61,12 @@ func (a *Analysis) fitRuns() {
 		return
 	}
 	first := a.Runs[0]
+	for _, run := range a.Runs {
+		if run.ESPVR != nil {
+			first = run
+			break
+		}
+	}
 	a.PreloadRun, a.ESPVR, a.EDPVR = first.Beats, first.ESPVR, first.EDPVR
 	if a.ESPVR != nil {
 		a.Known.V0, a.Known.Ees = a.ESPVR.V0, a.ESPVR.Ees
