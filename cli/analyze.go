@@ -7,6 +7,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 )
@@ -75,9 +76,9 @@ func (t tableUnits) n(x float64, unit string) string { return formatValue(inUnit
 
 func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 	r := a.Recording
-	w := env.Stdout
+	w := newStdout(env)
 	tu := tableUnits{a.Unit}
-	fmt.Fprintf(w, "Recording %s: %d samples at %.6g Hz over %.2f s; columns %q, %q, %q", path, r.Len(), r.Rate,
+	fmt.Fprintf(w, "Recording %s: %d samples at %.6g Hz over %.2f s; columns %q, %q, %q", safetext.Line(path), r.Len(), r.Rate,
 		r.Duration(), r.Columns.Time, r.Columns.Pressure, r.Columns.Volume)
 	if r.Columns.Aortic != "" {
 		fmt.Fprintf(w, ", aortic %q", r.Columns.Aortic)
@@ -108,7 +109,7 @@ func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 		status := "kept"
 		switch {
 		case !b.Kept():
-			status = "dropped: " + b.Dropped
+			status = "dropped: " + safetext.Line(b.Dropped)
 		case b.Run >= 0:
 			status = fmt.Sprintf("kept, run %d", b.Run+1)
 		}
@@ -138,12 +139,12 @@ func writeAnalysisTable(env *Env, path string, a *analysis.Analysis) error {
 		fmt.Fprintf(w, "Steady beats (median of %d in %d steady stretches): %s\n", len(a.Steady), len(a.SteadySegments), strings.Join(parts, ", "))
 	}
 	for _, n := range a.Notes {
-		fmt.Fprintf(w, "Note: %s\n", n)
+		fmt.Fprintf(w, "Note: %s\n", safetext.Line(n))
 	}
 	for _, x := range a.Warnings {
-		fmt.Fprintf(w, "Warning: %s\n", x)
+		fmt.Fprintf(w, "Warning: %s\n", safetext.Line(x))
 	}
-	return nil
+	return flushStdout(w)
 }
 
 // writeRunTable writes what was fitted to one preload run.
@@ -187,7 +188,7 @@ func writeSingleBeat(w io.Writer, tu tableUnits, sb *analysis.SingleBeat) {
 	if c := sb.Chen; c != nil {
 		fmt.Fprintf(w, "  Ees(sb) %s — an estimate (Chen et al. 2001; ENd(est) %.3f), not a measurement\n", tu.v(c.Ees, "mmHg/mL"), c.ENdEst)
 	} else {
-		fmt.Fprintf(w, "  Ees(sb): %s\n", sb.ChenErr)
+		fmt.Fprintf(w, "  Ees(sb): %s\n", safetext.Line(sb.ChenErr))
 	}
 	if k := sb.Klotz; k != nil {
 		// P = α·V^β with V in the display unit.
@@ -195,7 +196,7 @@ func writeSingleBeat(w io.Writer, tu tableUnits, sb *analysis.SingleBeat) {
 		fmt.Fprintf(w, "  EDPVR P = %.4g·V^%.4g, V in %s — an estimate (Klotz et al. 2006; V0 %s, V30 %s, both estimates)\n",
 			alpha, k.Beta, tu.u.Name, tu.v(k.V0, "mL"), tu.v(k.V30, "mL"))
 	} else {
-		fmt.Fprintf(w, "  EDPVR (Klotz): %s\n", sb.KlotzErr)
+		fmt.Fprintf(w, "  EDPVR (Klotz): %s\n", safetext.Line(sb.KlotzErr))
 	}
 }
 

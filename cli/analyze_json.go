@@ -52,7 +52,7 @@ func analysisObject(path, calFile string, a *analysis.Analysis) object {
 		}
 		m := b.Metrics
 		row := object{
-			{"beat", b.Index}, {"start_s", number(b.Start)}, {"end_s", number(b.End)},
+			{"beat", b.Index}, {"start_s", number(seconds(b.Start))}, {"end_s", number(seconds(b.End))},
 			{"kept", b.Kept()}, {"drop_reason", nullable(b.Dropped)}, {"steady", steadyBeat[b]}, {"run", run},
 			{"ejection_onset_ms", number(b.Ejection.Open * 1e3)}, {"ejection_end_ms", number(b.Ejection.Close * 1e3)},
 		}
@@ -91,7 +91,7 @@ func analysisObject(path, calFile string, a *analysis.Analysis) object {
 			{"rows", r.Rows},
 			{"samples", r.Len()},
 			{"sample_rate_hz", number(r.Rate)},
-			{"duration_s", number(r.Duration())},
+			{"duration_s", number(seconds(r.Duration()))},
 			{"columns", object{{"time", nullable(r.Columns.Time)}, {"pressure", r.Columns.Pressure},
 				{"volume", r.Columns.Volume}, {"aortic", nullable(r.Columns.Aortic)}}},
 			{"units_read", object{{"time", r.Columns.TimeUnit}, {"pressure", r.Columns.PressureUnit}, {"volume", r.Columns.VolumeUnit}}},

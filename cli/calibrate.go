@@ -2,9 +2,9 @@ package cli
 
 import (
 	"fmt"
-	"os"
 	"path/filepath"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model/analysis"
 )
 
@@ -47,10 +47,9 @@ func runCalibrate(env *Env, args []string) error {
 	if *svFrom != "" && *refSV == 0 {
 		return usagef("--sv-from needs --reference-sv")
 	}
-	if *out != "" && !*force {
-		// Refused before the work, not after it.
-		if _, err := os.Lstat(*out); err == nil {
-			return fmt.Errorf("-o %s: file exists (choose another name, or overwrite with --force)", *out)
+	if *out != "" {
+		if err := checkOutput(*out, "o", *force); err != nil { // before the work, not after it
+			return err
 		}
 	}
 	a, err := rf.analyze(path)
@@ -107,23 +106,23 @@ func runCalibrate(env *Env, args []string) error {
 			{"warnings", nonNil(a.Recording.Warnings)},
 		})
 	}
-	w := env.Stdout
+	w := newStdout(env)
 	tu := tableUnits{a.Unit}
 	fmt.Fprintf(w, "Saline run %s: %d beats; end-systolic = %.4f × end-diastolic + %s (r² %.4f; the end-diastolic signal rises %.0f %%).\n",
-		path, fit.Beats, fit.Slope, tu.v(fit.Intercept, "mL"), fit.R2, 100*fit.EDVRise)
+		safetext.Line(path), fit.Beats, fit.Slope, tu.v(fit.Intercept, "mL"), fit.R2, 100*fit.EDVRise)
 	fmt.Fprintf(w, "Parallel volume (Baan et al. 1984): %s\n", tu.v(fit.ParallelVolume, "mL"))
 	if *refSV > 0 {
-		fmt.Fprintf(w, "α = %s (conductance SV, %s) / %s (reference) = %.4g\n", tu.v(sig, "mL"), svFile, tu.v(*refSV, "mL"), cal.Alpha)
+		fmt.Fprintf(w, "α = %s (conductance SV, %s) / %s (reference) = %.4g\n", tu.v(sig, "mL"), safetext.Line(svFile), tu.v(*refSV, "mL"), cal.Alpha)
 	} else {
 		fmt.Fprintln(w, "α not found: give --reference-sv ML (a flow probe's or thermodilution's stroke volume) to find it; 1 is written.")
 	}
 	// The reader's warnings only: the bolus looks like a preload change to
 	// the analysis, whose warnings about it mean nothing here.
 	for _, x := range a.Recording.Warnings {
-		fmt.Fprintf(w, "Warning: %s\n", x)
+		fmt.Fprintf(w, "Warning: %s\n", safetext.Line(x))
 	}
 	if *out != "" {
-		fmt.Fprintf(w, "Wrote %s; use it with: pvcouple analyze FILE.csv --calibration %s\n", *out, *out)
+		fmt.Fprintf(w, "Wrote %s; use it with: pvcouple analyze FILE.csv --calibration %s\n", safetext.Line(*out), safetext.Line(*out))
 	}
-	return nil
+	return flushStdout(w)
 }

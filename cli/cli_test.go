@@ -92,7 +92,7 @@ func TestInfoCommands(t *testing.T) {
 		want []string
 	}{
 		{[]string{"params"}, []string{"filling_pressure_mmhg", "mmHg", "1", "40", "preload"}},
-		{[]string{"presets"}, []string{"normal", "hfref", "hfpef", "(default)"}},
+		{[]string{"presets"}, []string{"invented cases of our own, labelled so", "normal", "hfref", "hfpef", "(default)"}},
 		{[]string{"--help"}, []string{"solve", "loop", "not for treating", "clinical judgement"}},
 		{[]string{"--version"}, []string{"pvcouple " + Version}},
 		{[]string{"solve", "--help"}, []string{"--preset", "--scenario", "--set", "--format"}},
@@ -125,7 +125,7 @@ func TestBadInput(t *testing.T) {
 		{[]string{"solve", "--set", "ees_mmhg_per_ml=Inf"}, 2, []string{"ees_mmhg_per_ml", "not a finite number", "mmHg/mL"}},
 		{[]string{"solve", "--set", "heart_rate_bpm=500"}, 2, []string{"heart_rate_bpm = 500", "out of range", "allowed 30 to 180 bpm"}},
 		{[]string{"solve", "--set", "heart_rate_bpm"}, 2, []string{"KEY=VALUE"}},
-		{[]string{"solve", "--preset", "athlete"}, 1, []string{`unknown preset "athlete"`, "normal"}},
+		{[]string{"solve", "--preset", "athlete"}, 2, []string{`unknown preset "athlete"`, "normal"}},
 		{[]string{"solve", "--scenario", filepath.Join(dir, "none.yaml")}, 1, []string{"none.yaml", "no such file"}},
 		{[]string{"solve", "--scenario", broken}, 1, []string{"broken.yaml", "not valid YAML"}},
 		{[]string{"solve", "--scenario", outOfRange}, 1, []string{"range.yaml:4", "ees_mmhg_per_ml = 40", "allowed 0.2 to 10 mmHg/mL"}},
@@ -134,6 +134,14 @@ func TestBadInput(t *testing.T) {
 		{[]string{"solve", "--bogus"}, 2, []string{"bogus"}},
 		{[]string{"solve", "extra"}, 2, []string{"no arguments"}},
 		{[]string{"frobnicate"}, 2, []string{`unknown command "frobnicate"`, "solve"}},
+		// One rule for every way of giving a value.
+		{[]string{"solve", "--scenario", ""}, 2, []string{"--scenario is empty"}},
+		{[]string{"solve", "--preset", " "}, 2, []string{"--preset is empty"}},
+		{[]string{"solve", "--set", "heart_rate_bpm=80", "--set", "heart_rate_bpm=90"}, 2, []string{"--set heart_rate_bpm is given twice", `"80"`, `"90"`}},
+		{[]string{"solve", "--set", "heart_rate_bpm=0x50"}, 2, []string{`"0x50" is not a decimal number`, "30 to 180 bpm"}},
+		{[]string{"solve", "--set", "heart_rate_bpm=0x1p6"}, 2, []string{`"0x1p6" is not a decimal number`}},
+		{[]string{"solve", "--set", "heart_rate_bpm=8_0"}, 2, []string{`"8_0" is not a number`}},
+		{[]string{"solve", "--set", "heart_rate_bpm=1e999"}, 2, []string{"not a finite number"}},
 	}
 	checkRefusals(t, cases)
 }

@@ -23,7 +23,9 @@ var errNoTerminal = errors.New("the explorer needs a terminal on standard input 
 // since that is what a pipe or a script wants, and says why.
 func runDefault(env *Env, args []string) error {
 	if len(args) == 0 && !env.IsTerminal() {
-		usage(env.Stdout)
+		if err := usage(env); err != nil {
+			return err
+		}
 		fmt.Fprintf(env.Stderr, "pvcouple: not opening the explorer: %v\n", errNoTerminal)
 		return nil
 	}

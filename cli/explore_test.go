@@ -12,7 +12,7 @@ func TestExploreNeedsTerminal(t *testing.T) {
 		{[]string{"explore"}, 1, []string{"needs a terminal", "pvcouple solve"}},
 		{[]string{"explore", "--color", "never", "--preset", "hfref"}, 1, []string{"needs a terminal"}},
 		{[]string{"explore", "--color", "pink"}, 2, []string{"--color", "pink", "auto, always, never"}},
-		{[]string{"explore", "--preset", "athlete"}, 1, []string{`unknown preset "athlete"`}},
+		{[]string{"explore", "--preset", "athlete"}, 2, []string{`unknown preset "athlete"`}},
 		{[]string{"explore", "--set", "heart_rate_bpm=500"}, 2, []string{"allowed 30 to 180 bpm"}},
 		{[]string{"explore", "extra"}, 2, []string{"no arguments"}},
 		{[]string{"--preset", "hfref"}, 1, []string{"needs a terminal"}}, // options without a command open the explorer

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"pvcouple/figure"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -30,7 +31,7 @@ Example: pvcouple figure --set resistance_mmhg_s_per_ml=1.7 -o afterload.svg`
 
 func runFigure(env *Env, args []string) error {
 	fs := newFlags(env, "figure",
-		"figure [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--baseline FILE] -o FILE.svg|FILE.png [--size WxH] [--force]",
+		"figure [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--baseline FILE] -o FILE.svg|FILE.png [--size WxH] [--dpi N] [--title TEXT] [--force]",
 		figureAbout)
 	var sel selection
 	sel.addFlags(fs)
@@ -51,9 +52,15 @@ func runFigure(env *Env, args []string) error {
 	if *out == "" {
 		return usagef("figure needs an output file: -o FILE.svg or -o FILE.png")
 	}
+	if err := safetext.CheckLine(*title); err != nil {
+		return usagef("--title %s: %v", presets.QuoteShort(*title), err)
+	}
 	format := strings.TrimPrefix(strings.ToLower(filepath.Ext(*out)), ".")
 	if format != "svg" && format != "png" {
-		return usagef("-o %s: the extension %q is not .svg or .png", *out, filepath.Ext(*out))
+		return usagef("-o %s: the extension %q is not .svg or .png", safetext.Line(*out), filepath.Ext(*out))
+	}
+	if err := checkOutput(*out, "o", *force); err != nil {
+		return err
 	}
 	sz, err := figure.ParseSize(*size, *dpi)
 	if err != nil {
@@ -103,9 +110,9 @@ func runFigure(env *Env, args []string) error {
 	}
 	w, h := sz.Pixels()
 	if format == "png" {
-		fmt.Fprintf(env.Stderr, "wrote %s (%s, %d×%d px)\n", *out, sz, w, h)
+		fmt.Fprintf(env.Stderr, "wrote %s (%s, %d×%d px)\n", safetext.Line(*out), sz, w, h)
 	} else {
-		fmt.Fprintf(env.Stderr, "wrote %s (%s)\n", *out, sz)
+		fmt.Fprintf(env.Stderr, "wrote %s (%s)\n", safetext.Line(*out), sz)
 	}
 	return nil
 }
@@ -119,7 +126,7 @@ func figureBaseline(sel *selection, sc *presets.Scenario, file string) (model.Pa
 		if err != nil {
 			return model.Params{}, "", fmt.Errorf("--baseline: %w", err)
 		}
-		return b.Params, "scenario " + b.Name + " (" + filepath.Base(file) + ")", nil
+		return b.Params, "scenario " + b.Name + " (" + safetext.Line(filepath.Base(file)) + ")", nil
 	}
 	if sc.Baseline != nil {
 		return *sc.Baseline, "baseline of scenario " + sc.Name, nil

@@ -10,6 +10,7 @@ import (
 	"text/tabwriter"
 	"time"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 	"pvcouple/presets"
@@ -27,7 +28,7 @@ scenario that 'pvcouple explore --scenario FILE' opens as the baseline for what-
 A model fitted to a recording, for research and education planning; not patient advice.`
 
 func runFit(env *Env, args []string) error {
-	fs := newFlags(env, "fit", "fit FILE.csv [-o scenario.yaml] [--force] [--format table|json] [options]", fitAbout)
+	fs := newFlags(env, "fit", "fit FILE.csv [-o scenario.yaml [--force]] [--name NAME] [--format table|json] [--max-seconds S] [options]", fitAbout)
 	var rf recordingFlags
 	rf.addFlags(fs)
 	out := fs.String("o", "", "write the fitted scenario to `FILE` (YAML)")
@@ -48,6 +49,24 @@ func runFit(env *Env, args []string) error {
 	}
 	if !(*maxSec >= 0.5 && *maxSec <= 60) {
 		return usagef("--max-seconds %g: allowed 0.5 to 60 s", *maxSec)
+	}
+	if err := safetext.CheckLine(*name); err != nil {
+		return usagef("--name %s: %v", presets.QuoteShort(*name), err)
+	}
+	if *out == "" && *force {
+		return usagef("--force only applies with -o FILE.yaml")
+	}
+	if *out != "" {
+		// Refused before the fit, not after it.
+		if ext := strings.ToLower(filepath.Ext(*out)); ext != ".yaml" && ext != ".yml" {
+			return usagef("-o %s: a scenario file name ends in .yaml", safetext.Line(*out))
+		}
+		if err := checkOutput(*out, "o", *force); err != nil {
+			return err
+		}
+	}
+	if err := rf.check(); err != nil {
+		return err
 	}
 	a, err := rf.analyze(path)
 	if err != nil {
@@ -79,7 +98,7 @@ func runFit(env *Env, args []string) error {
 // fittedScenario is the scenario written by fit: the fitted parameters as
 // both the parameters and the baseline, with notes saying where they came from.
 func fittedScenario(path, name string, a *analysis.Analysis, r *analysis.FitResult, baseName string) *presets.Scenario {
-	file := filepath.Base(path)
+	file := safetext.Line(filepath.Base(path))
 	if name == "" {
 		name = "fitted-" + strings.TrimSuffix(file, filepath.Ext(file))
 	}
@@ -140,7 +159,8 @@ func fitObject(path, out string, a *analysis.Analysis, r *analysis.FitResult, sc
 }
 
 func writeFitTable(env *Env, path, out string, a *analysis.Analysis, r *analysis.FitResult) error {
-	w := env.Stdout
+	w := newStdout(env)
+	path, out = safetext.Line(path), safetext.Line(out)
 	fmt.Fprintf(w, "Fitted to %d steady beats of %s (heart rate %.1f bpm from the recording) in %.2f s, %d model solves (%s).\n",
 		r.Beats, path, r.HeartRate, r.Elapsed.Seconds(), r.Evaluations, r.Stopped)
 	fmt.Fprintf(w, "Residual over the loop: %.2f mmHg and %.2f mL root-mean-square.\n\n", r.RMSPressure, r.RMSVolume)
@@ -152,7 +172,7 @@ func writeFitTable(env *Env, path, out string, a *analysis.Analysis, r *analysis
 		if !math.IsInf(f.Spread, 1) {
 			spread = fmt.Sprintf("%.2g %%", 100*f.Spread)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\n", f.Key, formatValue(f.Value), s.Unit, formatValue(f.Start), spread, f.Note)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\n", f.Key, formatValue(f.Value), s.Unit, formatValue(f.Start), spread, safetext.Line(f.Note))
 	}
 	tw.Flush()
 	med := a.SteadyMedians()
@@ -166,10 +186,10 @@ func writeFitTable(env *Env, path, out string, a *analysis.Analysis, r *analysis
 	}
 	tw.Flush()
 	for _, x := range append(append([]string(nil), r.Warnings...), a.Warnings...) {
-		fmt.Fprintf(w, "Warning: %s\n", x)
+		fmt.Fprintf(w, "Warning: %s\n", safetext.Line(x))
 	}
 	if out != "" {
 		fmt.Fprintf(w, "\nWrote %s; open it with: pvcouple explore --scenario %s\n", out, out)
 	}
-	return nil
+	return flushStdout(w)
 }

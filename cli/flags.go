@@ -5,12 +5,14 @@ import (
 	"fmt"
 	"io"
 	"strings"
+
+	"pvcouple/presets"
 )
 
 // flagSet is a subcommand's flags with its help text.
 type flagSet struct {
 	*flag.FlagSet
-	help func()
+	help func() error // prints the help; reports a failed write
 }
 
 // newFlags returns a flag set for a subcommand whose help text lists its
@@ -19,25 +21,27 @@ func newFlags(env *Env, name, synopsis, about string) *flagSet {
 	fs := &flagSet{FlagSet: flag.NewFlagSet(name, flag.ContinueOnError)}
 	fs.SetOutput(io.Discard)
 	fs.Usage = func() {} // errors are reported by parse, help only on --help
-	fs.help = func() {
-		w := env.Stdout
+	fs.help = func() error {
+		w := newStdout(env)
 		fmt.Fprintf(w, "Usage: pvcouple %s\n\n%s\n", synopsis, about)
-		fmt.Fprintln(w, "\nOptions:")
+		heading := "\nOptions:"
 		fs.VisitAll(func(f *flag.Flag) {
+			if heading != "" { // only above options: a command may have none
+				fmt.Fprintln(w, heading)
+				heading = ""
+			}
 			name, usage := flag.UnquoteUsage(f)
 			if name != "" {
 				name = " " + name
 			}
-			dash := "--"
-			if len(f.Name) == 1 {
-				dash = "-" // short options read better with one dash: -o FILE
-			}
-			fmt.Fprintf(w, "  %s%s%s\n      %s", dash, f.Name, name, usage)
+			// Short options read better with one dash: -o FILE.
+			fmt.Fprintf(w, "  %s%s\n      %s", dashed(f.Name), name, usage)
 			if f.DefValue != "" && f.DefValue != "[]" && f.DefValue != "false" {
 				fmt.Fprintf(w, " (default %s)", f.DefValue)
 			}
 			fmt.Fprintln(w)
 		})
+		return flushStdout(w)
 	}
 	return fs
 }
@@ -49,7 +53,9 @@ func parse(fs *flagSet, args []string) ([]string, error) {
 	for {
 		if err := fs.Parse(args); err != nil {
 			if err == flag.ErrHelp {
-				fs.help()
+				if herr := fs.help(); herr != nil {
+					return nil, herr
+				}
 				return nil, err
 			}
 			return nil, usagef("%s: %v", fs.Name(), err)
@@ -79,5 +85,5 @@ func choice(flagName, value string, allowed ...string) error {
 			return nil
 		}
 	}
-	return usagef("--%s %q is not one of: %s", flagName, value, strings.Join(allowed, ", "))
+	return usagef("--%s %s is not one of: %s", flagName, presets.QuoteShort(value), strings.Join(allowed, ", "))
 }

@@ -24,12 +24,14 @@ func runParams(env *Env, args []string) error {
 	if err != nil {
 		return err
 	}
-	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
+	out := newStdout(env)
+	w := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(w, "KEY\tUNIT\tDEFAULT\tMIN\tMAX\tMEANING")
 	for _, s := range model.Specs {
 		fmt.Fprintf(w, "%s\t%s\t%g\t%g\t%g\t%s\n", s.Key, s.Unit, s.Get(def.Params), s.Min, s.Max, s.Meaning)
 	}
-	return w.Flush()
+	w.Flush()
+	return flushStdout(out)
 }
 
 func runPresets(env *Env, args []string) error {
@@ -39,7 +41,9 @@ func runPresets(env *Env, args []string) error {
 	} else if len(pos) > 0 {
 		return usagef("presets takes no arguments")
 	}
-	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
+	out := newStdout(env)
+	fmt.Fprintln(out, "Built-in scenarios: invented cases of our own, labelled so in their notes; not patient data.")
+	w := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 	for _, n := range presets.Names() {
 		sc, err := presets.Get(n)
 		if err != nil {
@@ -51,5 +55,6 @@ func runPresets(env *Env, args []string) error {
 		}
 		fmt.Fprintf(w, "%s\t%s%s\n", n, sc.Description, mark)
 	}
-	return w.Flush()
+	w.Flush()
+	return flushStdout(out)
 }

@@ -48,6 +48,9 @@ func runLoop(env *Env, args []string) error {
 		for i, c := range loopColumns {
 			col := make([]number, len(series[i]))
 			for j, v := range series[i] {
+				if i == 0 {
+					v = seconds(v)
+				}
 				col[j] = number(v)
 			}
 			samples = append(samples, field{c, col})
@@ -55,23 +58,24 @@ func runLoop(env *Env, args []string) error {
 		return writeJSON(env, object{
 			{"scenario", sc.Name},
 			{"params", paramsObject(sc.Params)},
-			{"period_s", number(st.Period)},
+			{"period_s", number(seconds(st.Period))},
 			{"samples", samples},
 		})
 	}
 	w := csv.NewWriter(env.Stdout)
 	if err := w.Write(loopColumns); err != nil {
-		return err
+		return outputErr(err)
 	}
 	row := make([]string, len(series))
 	for j := range series[0] {
 		for i := range series {
 			row[i] = formatCSV(series[i][j])
 		}
+		row[0] = formatCSV(seconds(series[0][j]))
 		if err := w.Write(row); err != nil {
-			return err
+			return outputErr(err)
 		}
 	}
 	w.Flush()
-	return w.Error()
+	return outputErr(w.Error())
 }

@@ -8,6 +8,8 @@ import (
 	"os"
 	"sort"
 	"strings"
+
+	"pvcouple/internal/safetext"
 )
 
 // Version is the program version printed by --version.
@@ -34,7 +36,7 @@ var commands []command
 
 // commandOrder is the order of the commands in the help text; commands not
 // named here follow in the order they registered.
-var commandOrder = []string{"explore", "solve", "loop", "protocol", "sweep", "analyze", "fit", "calibrate", "figure", "presets", "params"}
+var commandOrder = []string{"explore", "solve", "loop", "protocol", "sweep", "analyze", "fit", "calibrate", "figure", "serve", "presets", "params"}
 
 // register adds a subcommand; each command's file registers itself.
 func register(c command) {
@@ -51,10 +53,7 @@ func register(c command) {
 }
 
 // defaultCommand runs when pvcouple is started without arguments.
-var defaultCommand = func(env *Env, _ []string) error {
-	usage(env.Stdout)
-	return nil
-}
+var defaultCommand = func(env *Env, _ []string) error { return usage(env) }
 
 // usageError marks an error in how the program was called (exit code 2).
 type usageError struct{ msg string }
@@ -73,7 +72,7 @@ func Main(args []string, env *Env) int {
 	case errors.Is(err, flag.ErrHelp):
 		return 0
 	default:
-		fmt.Fprintf(env.Stderr, "pvcouple: %v\n", err)
+		fmt.Fprintf(env.Stderr, "pvcouple: %s\n", safetext.Text(err.Error()))
 		var ue *usageError
 		if errors.As(err, &ue) {
 			fmt.Fprintln(env.Stderr, "Run `pvcouple --help` for usage.")
@@ -92,11 +91,10 @@ func run(args []string, env *Env) error {
 		if len(args) > 1 && args[0] == "help" {
 			return run([]string{args[1], "--help"}, env)
 		}
-		usage(env.Stdout)
-		return nil
+		return usage(env)
 	case "-version", "--version", "version":
-		fmt.Fprintf(env.Stdout, "pvcouple %s\n", Version)
-		return nil
+		_, err := fmt.Fprintf(env.Stdout, "pvcouple %s\n", Version)
+		return outputErr(err)
 	}
 	for _, c := range commands {
 		if c.name == args[0] {
@@ -118,7 +116,8 @@ func commandNames() string {
 	return strings.Join(n, ", ")
 }
 
-func usage(w io.Writer) {
+func usage(env *Env) error {
+	w := newStdout(env)
 	fmt.Fprintf(w, `pvcouple %s: what-if explorer of left ventricle–arterial coupling
 
 A lumped model (time-varying elastance ventricle, three-element Windkessel)
@@ -139,6 +138,7 @@ Run 'pvcouple COMMAND --help' for a command's options.
   --help      this text
   --version   print the version
 `)
+	return flushStdout(w)
 }
 
 // StdEnv is the environment of the running process.

@@ -22,11 +22,8 @@ func TestAnalyzeLongRecordingMemory(t *testing.T) {
 	if testing.Short() {
 		t.Skip("writes and analyses 60 minutes of recording")
 	}
+	bin := buildBinary(t)
 	dir := t.TempDir()
-	bin := filepath.Join(dir, "pvcouple")
-	if out, err := exec.Command("go", "build", "-o", bin, "pvcouple").CombinedOutput(); err != nil {
-		t.Fatalf("build: %v\n%s", err, out)
-	}
 	sc, err := presets.Get("normal")
 	if err != nil {
 		t.Fatal(err)

@@ -1,11 +1,14 @@
 package cli
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
 	"strconv"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
@@ -69,15 +72,34 @@ func metricsObject(m *model.Metrics) object {
 	return o
 }
 
-// writeJSON writes v indented, with a final newline.
+// writeJSON writes v indented, with a final newline. Characters a terminal
+// acts on are escaped (safetext.JSON), so the text is safe to print and
+// decodes to the same values.
 func writeJSON(env *Env, v any) error {
 	data, err := json.MarshalIndent(v, "", "  ")
 	if err != nil {
 		return err
 	}
-	data = append(data, '\n')
+	data = append(safetext.JSON(data), '\n')
 	_, err = env.Stdout.Write(data)
-	return err
+	return outputErr(err)
+}
+
+// newStdout buffers a command's standard output. A bufio.Writer keeps the
+// first failed write and returns it from every later write and from Flush,
+// so a command that ends with flushStdout reports output lost on a full disk
+// or a closed pipe instead of exiting 0.
+func newStdout(env *Env) *bufio.Writer { return bufio.NewWriterSize(env.Stdout, 1<<16) }
+
+// flushStdout writes out what w holds and reports any write that failed.
+func flushStdout(w *bufio.Writer) error { return outputErr(w.Flush()) }
+
+// outputErr words a failure to write the standard output (nil stays nil).
+func outputErr(err error) error {
+	if err == nil {
+		return nil
+	}
+	return fmt.Errorf("cannot write the output: %w", err)
 }
 
 // formatValue formats a number for tables: 4 significant digits, "—" for NaN.
@@ -99,6 +121,10 @@ func formatValue(v float64) string {
 		return strconv.FormatFloat(v, 'g', 3, 64)
 	}
 }
+
+// seconds rounds a time in seconds to the microsecond, far finer than any
+// sampling here, so that sums of periods print as 18, not 18.000000000000004.
+func seconds(t float64) float64 { return math.Round(t*1e6) / 1e6 }
 
 // formatCSV formats a number for CSV: shortest exact decimal, empty for NaN.
 func formatCSV(v float64) string {

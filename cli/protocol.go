@@ -8,6 +8,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/presets"
 )
 
@@ -48,7 +49,7 @@ func runProtocol(env *Env, args []string) error {
 	case "show":
 		return runProtocolShow(env, args[1:])
 	case "-h", "-help", "--help", "help":
-		fmt.Fprintf(env.Stdout, `Usage:
+		_, err := fmt.Fprintf(env.Stdout, `Usage:
   pvcouple protocol run NAME|FILE [--preset NAME | --scenario FILE] [--set KEY=VALUE]...
                                   [--format csv|json] [--samples FILE.csv [--force]]
   pvcouple protocol list
@@ -61,7 +62,7 @@ scenario's steady state, and prints one row per beat.
 
 Run 'pvcouple protocol run --help' for the options of run.
 `, protocolAbout)
-		return nil
+		return outputErr(err)
 	}
 	return usagef("unknown protocol subcommand %q; use run, list or show", args[0])
 }
@@ -93,16 +94,19 @@ func runProtocolList(env *Env, args []string) error {
 	} else if len(pos) > 0 {
 		return usagef("protocol list takes no arguments")
 	}
-	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
+	out := newStdout(env)
+	fmt.Fprintln(out, "Built-in protocols: invented by us, labelled so in their notes; for research and education planning.")
+	w := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(w, "NAME\tBEATS\tDESCRIPTION")
 	for _, n := range presets.ProtocolNames() {
 		pr, err := presets.GetProtocol(n)
 		if err != nil {
 			return err
 		}
-		fmt.Fprintf(w, "%s\t%d\t%s\n", n, pr.TotalBeats(), pr.Description)
+		fmt.Fprintf(w, "%s\t%d\t%s\n", n, pr.TotalBeats(), safetext.Line(pr.Description))
 	}
-	return w.Flush()
+	w.Flush()
+	return flushStdout(out)
 }
 
 func runProtocolShow(env *Env, args []string) error {
@@ -120,7 +124,7 @@ func runProtocolShow(env *Env, args []string) error {
 		return err
 	}
 	_, err = env.Stdout.Write(src)
-	return err
+	return outputErr(err)
 }
 
 // errNoProtocol is the usage error of a run without a protocol.

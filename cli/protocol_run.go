@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 	"pvcouple/presets"
@@ -93,7 +94,7 @@ func runProtocolRun(env *Env, args []string) error {
 		return err
 	}
 	if *samples != "" {
-		fmt.Fprintf(env.Stderr, "pvcouple: wrote %d samples (%.3f s at %d Hz) to %s\n", run.samples, run.duration, samplesRate, *samples)
+		fmt.Fprintf(env.Stderr, "pvcouple: wrote %d samples (%.3f s at %d Hz) to %s\n", run.samples, run.duration, samplesRate, safetext.Line(*samples))
 	}
 	if *format == "json" {
 		return writeJSON(env, run.object())
@@ -138,7 +139,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 		if out != nil {
 			rec := rb.Recording
 			for i := range rec.T {
-				line = strconv.AppendFloat(line[:0], rec.T[i], 'f', -1, 64)
+				line = strconv.AppendFloat(line[:0], seconds(rec.T[i]), 'f', -1, 64)
 				line = append(line, ',')
 				line = strconv.AppendFloat(line, rec.P[i], 'g', -1, 64)
 				line = append(line, ',')
@@ -173,12 +174,12 @@ func (r *protocolRun) writeCSV(env *Env) error {
 		header = append(header, leverPrefix+k)
 	}
 	if err := w.Write(header); err != nil {
-		return err
+		return outputErr(err)
 	}
 	row := make([]string, len(header))
 	for _, b := range r.beats {
 		row = row[:0]
-		row = append(row, strconv.Itoa(b.index+1), r.plan.Label(b.index), formatCSV(b.tStart))
+		row = append(row, strconv.Itoa(b.index+1), safetext.Line(r.plan.Label(b.index)), formatCSV(seconds(b.tStart)))
 		for _, m := range model.MetricSpecs {
 			row = append(row, formatCSV(m.Get(&b.metrics)))
 		}
@@ -187,11 +188,11 @@ func (r *protocolRun) writeCSV(env *Env) error {
 			row = append(row, formatCSV(spec.Get(r.plan.Params[b.index])))
 		}
 		if err := w.Write(row); err != nil {
-			return err
+			return outputErr(err)
 		}
 	}
 	w.Flush()
-	return w.Error()
+	return outputErr(w.Error())
 }
 
 func (r *protocolRun) object() object {
@@ -202,7 +203,7 @@ func (r *protocolRun) object() object {
 	}
 	beats := make([]object, len(r.beats))
 	for i, b := range r.beats {
-		o := object{{"beat", b.index + 1}, {"step", r.plan.Label(b.index)}, {"t_start_s", number(b.tStart)}}
+		o := object{{"beat", b.index + 1}, {"step", r.plan.Label(b.index)}, {"t_start_s", number(seconds(b.tStart))}}
 		o = append(o, metricsObject(&b.metrics)...)
 		for _, k := range levers {
 			spec, _ := model.SpecByKey(k)
@@ -219,7 +220,7 @@ func (r *protocolRun) object() object {
 		{"scenario", r.scenario.Name},
 		{"params", paramsObject(r.plan.Initial)},
 		{"levers", levers},
-		{"duration_s", number(r.duration)},
+		{"duration_s", number(seconds(r.duration))},
 		{"steps", steps},
 		{"beats", beats},
 		{"espvr_fit", fit},

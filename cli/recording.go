@@ -2,8 +2,10 @@ package cli
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
+	"pvcouple/internal/safefile"
 	"pvcouple/model/analysis"
 )
 
@@ -72,7 +74,7 @@ func (r *recordingFlags) options() (analysis.ReadOptions, analysis.Options, erro
 		if ro.VolumeOffset != 0 || r.alpha != 0 {
 			return ro, analysis.Options{}, usagef("give --calibration or --parallel-volume/--volume-offset and --alpha, not both")
 		}
-		c, err := analysis.LoadCalibration(r.calibration)
+		c, err := readCalibration(r.calibration)
 		if err != nil {
 			return ro, analysis.Options{}, err
 		}
@@ -91,7 +93,12 @@ func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
 	if err != nil {
 		return nil, err
 	}
-	rec, err := analysis.LoadCSV(path, ro)
+	f, err := safefile.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("cannot read recording: %w", err)
+	}
+	defer f.Close()
+	rec, err := analysis.ReadCSV(f, path, ro)
 	if err != nil {
 		return nil, err
 	}
@@ -102,6 +109,22 @@ func (r *recordingFlags) analyze(path string) (*analysis.Analysis, error) {
 			r.smoothMS, se.Min*1e3, se.Max*1e3, analysis.MinSmoothSamples, se.Period*1e3)
 	}
 	return a, err
+}
+
+// readCalibration reads a calibration file, refusing what is not a regular file.
+func readCalibration(path string) (*analysis.CalibrationFile, error) {
+	f, err := safefile.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("cannot read calibration: %w", err)
+	}
+	defer f.Close()
+	return analysis.ReadCalibration(f, path)
+}
+
+// check refuses bad options as usage errors, before any file is read.
+func (r *recordingFlags) check() error {
+	_, _, err := r.options()
+	return err
 }
 
 // onePath returns the single file argument of a command.

@@ -3,7 +3,11 @@
 package cli
 
 import (
+	"bytes"
+	"errors"
+	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -34,5 +38,40 @@ func TestFailedSamplesWriteLeavesOldFile(t *testing.T) {
 	entries, _ := os.ReadDir(dir)
 	if len(entries) != 1 {
 		t.Errorf("failed write left files behind: %v", entries)
+	}
+}
+
+// Every file a command writes fails cleanly on a full disk (a real write
+// failure: the binary runs under a file-size limit of 0, ulimit -f, with
+// SIGXFSZ ignored): exit 1, the option and the file named, the temporary
+// file gone and no file of that name left.
+func TestFilesFailCleanlyOnFullDisk(t *testing.T) {
+	bin := buildBinary(t)
+	rec := writeRecording(t, 10, 0)
+	for _, c := range []struct {
+		name string
+		args func(path string) []string
+		want string
+	}{
+		{"scenario.yaml", func(p string) []string { return []string{"solve", "--save", p} }, "cannot save scenario"},
+		{"fitted.yaml", func(p string) []string { return []string{"fit", rec, "-o", p, "--max-seconds", "0.5"} }, "cannot save scenario"},
+		{"figure.svg", func(p string) []string { return []string{"figure", "-o", p} }, "cannot write"},
+		{"run.csv", func(p string) []string { return []string{"protocol", "run", "rate-steps", "--samples", p} }, "--samples"},
+	} {
+		dir := t.TempDir()
+		path := filepath.Join(dir, c.name)
+		cmd := exec.Command("sh", append([]string{"-c", `trap '' XFSZ; ulimit -f 0; exec "$@"`, "sh", bin}, c.args(path)...)...)
+		var errb bytes.Buffer
+		cmd.Stdout, cmd.Stderr = io.Discard, &errb
+		err := cmd.Run()
+		errs := errb.String()
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(errs, c.want) || !strings.Contains(errs, path) ||
+			!strings.Contains(errs, "file too large") || strings.Contains(errs, ".tmp-") {
+			t.Errorf("%s: %v, stderr %q", c.name, err, errs)
+		}
+		if entries, _ := os.ReadDir(dir); len(entries) != 0 {
+			t.Errorf("%s: left %v", c.name, entries)
+		}
 	}
 }

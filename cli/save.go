@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/presets"
 )
 
@@ -41,20 +42,28 @@ func (f *saveFlags) save(env *Env, sel *selection, sc *presets.Scenario) error {
 		return nil
 	}
 	out := *sc
-	out.Name = strings.TrimSuffix(filepath.Base(f.path), filepath.Ext(f.path))
+	out.Name = safetext.Line(strings.TrimSuffix(filepath.Base(f.path), filepath.Ext(f.path)))
 	out.Base = ""
 	from := "preset " + presets.Default
 	switch {
 	case sel.scenario != "":
-		from = "scenario file " + sel.scenario
+		from = "scenario file " + safetext.Line(sel.scenario)
 	case sel.preset != "":
 		from = "preset " + sel.preset
 	}
 	note := "Saved by `pvcouple solve` from " + from
-	if len(sel.sets) > 0 {
-		note += " with --set " + strings.Join(sel.sets, " --set ")
+	sets, err := parseSets(sel.sets) // checked already; written as KEY=VALUE, nothing of the argument's spacing
+	if err != nil {
+		return err
+	}
+	if len(sets) > 0 {
+		var kv []string
+		for _, s := range sets {
+			kv = append(kv, s.String())
+		}
+		note += " with --set " + strings.Join(kv, " --set ")
 		if out.Description != "" {
-			out.Description += ", with " + strings.Join(sel.sets, " ")
+			out.Description += ", with " + strings.Join(kv, " ")
 		}
 	}
 	if out.Notes != "" && !strings.HasSuffix(out.Notes, "\n") {
@@ -64,6 +73,6 @@ func (f *saveFlags) save(env *Env, sel *selection, sc *presets.Scenario) error {
 	if err := presets.SaveScenario(f.path, &out, f.force); err != nil {
 		return err
 	}
-	fmt.Fprintf(env.Stderr, "pvcouple: saved scenario %s to %s\n", out.Name, f.path)
+	fmt.Fprintf(env.Stderr, "pvcouple: saved scenario %s to %s\n", safetext.Line(out.Name), safetext.Line(f.path))
 	return nil
 }

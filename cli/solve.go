@@ -5,6 +5,7 @@ import (
 	"text/tabwriter"
 	"time"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -72,8 +73,9 @@ func solveObject(sc *presets.Scenario, st *model.Steady, elapsed time.Duration) 
 }
 
 func writeSolveTable(env *Env, sc *presets.Scenario, st *model.Steady, elapsed time.Duration) error {
-	w := tabwriter.NewWriter(env.Stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(w, "Scenario %s: steady state in %d beats, %.2f ms (residual %.1e)\n\n", sc.Name, st.Beats,
+	out := newStdout(env)
+	w := tabwriter.NewWriter(out, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(w, "Scenario %s: steady state in %d beats, %.2f ms (residual %.1e)\n\n", safetext.Line(sc.Name), st.Beats,
 		float64(elapsed.Microseconds())/1000, st.Residual)
 	fmt.Fprintln(w, "PARAMETER\tVALUE\tUNIT\t")
 	for _, s := range model.Specs {
@@ -84,5 +86,6 @@ func writeSolveTable(env *Env, sc *presets.Scenario, st *model.Steady, elapsed t
 	for _, s := range model.MetricSpecs {
 		fmt.Fprintf(w, "%s\t%s\t%s\t%s\n", s.Label, formatValue(s.Get(&st.Metrics)), s.Unit, s.Key)
 	}
-	return w.Flush()
+	w.Flush()
+	return flushStdout(out)
 }

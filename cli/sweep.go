@@ -1,7 +1,6 @@
 package cli
 
 import (
-	"bufio"
 	"bytes"
 	"context"
 	"encoding/csv"
@@ -14,6 +13,7 @@ import (
 	"strconv"
 	"strings"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/sweep"
 	"pvcouple/presets"
@@ -38,7 +38,7 @@ Example: pvcouple sweep --vary resistance_mmhg_s_per_ml=0.4:2:41 --vary ees_mmhg
 
 func runSweep(env *Env, args []string) error {
 	fs := newFlags(env, "sweep",
-		"sweep --vary KEY=FROM:TO:N [--vary KEY=FROM:TO:N]... [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format csv|json]",
+		"sweep --vary KEY=FROM:TO:N [--vary KEY=FROM:TO:N]... [--preset NAME | --scenario FILE] [--set KEY=VALUE]... [--format csv|json] [--workers N]",
 		sweepAbout)
 	var sel selection
 	sel.addFlags(fs)
@@ -119,48 +119,46 @@ func runSweep(env *Env, args []string) error {
 	return nil
 }
 
-// parseAxis reads one --vary KEY=FROM:TO:N.
+// parseAxis reads one --vary KEY=FROM:TO:N. Numbers are read as --set reads
+// them (presets.ParseNumber); a long argument is echoed cut short.
 func parseAxis(s string) (sweep.Axis, error) {
 	key, rng, ok := strings.Cut(s, "=")
 	key = strings.TrimSpace(key)
 	if !ok || key == "" {
-		return sweep.Axis{}, usagef("--vary %q: expected KEY=FROM:TO:N, e.g. --vary ees_mmhg_per_ml=1:4:31", s)
+		return sweep.Axis{}, usagef("--vary %s: expected KEY=FROM:TO:N, e.g. --vary ees_mmhg_per_ml=1:4:31", presets.QuoteShort(s))
 	}
 	spec, found := model.SpecByKey(key)
 	if !found {
-		return sweep.Axis{}, usagef("--vary %s: unknown parameter; known: %s", key, strings.Join(model.Keys(), ", "))
+		return sweep.Axis{}, usagef("--vary %s: unknown parameter; known: %s", presets.QuoteShort(key), strings.Join(model.Keys(), ", "))
 	}
+	at := "--vary " + key + "=" + strings.Trim(presets.QuoteShort(rng), `"`)
 	parts := strings.Split(rng, ":")
 	if len(parts) != 3 {
-		return sweep.Axis{}, usagef("--vary %s=%s: expected FROM:TO:N (first value, last value, number of values), e.g. %s=%g:%g:11",
-			key, rng, key, spec.Get(defaultParams()), spec.Get(defaultParams())*2)
+		return sweep.Axis{}, usagef("%s: expected FROM:TO:N (first value, last value, number of values), e.g. %s=%g:%g:11",
+			at, key, spec.Get(defaultParams()), spec.Get(defaultParams())*2)
 	}
 	var ends [2]float64
 	for i, name := range []string{"FROM", "TO"} {
-		txt := strings.TrimSpace(parts[i])
-		v, err := strconv.ParseFloat(txt, 64)
+		v, err := presets.ParseNumber(parts[i])
 		if err != nil {
-			return sweep.Axis{}, usagef("--vary %s=%s: %s %q is not a number; %s", key, rng, name, txt, spec.RangeText())
-		}
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return sweep.Axis{}, usagef("--vary %s=%s: %s = %s is not a finite number; %s", key, rng, name, txt, spec.RangeText())
+			return sweep.Axis{}, usagef("%s: %s: %v; %s", at, name, err, spec.RangeText())
 		}
 		if spec.Check(v) != nil {
-			return sweep.Axis{}, usagef("--vary %s=%s: %s = %s is out of range; %s", key, rng, name, txt, spec.RangeText())
+			return sweep.Axis{}, usagef("%s: %s = %g is out of range; %s", at, name, v, spec.RangeText())
 		}
 		ends[i] = v
 	}
 	txt := strings.TrimSpace(parts[2])
 	n, err := strconv.Atoi(txt)
 	if err != nil || n < 1 {
-		return sweep.Axis{}, usagef("--vary %s=%s: N %q is not a whole number of values ≥ 1", key, rng, txt)
+		return sweep.Axis{}, usagef("%s: N %s is not a whole number of values ≥ 1", at, presets.QuoteShort(txt))
 	}
 	a := sweep.Axis{Key: key, From: ends[0], To: ends[1], N: n}
 	if n == 1 && a.From != a.To {
-		return sweep.Axis{}, usagef("--vary %s=%s: with N = 1, FROM and TO must be equal (or fix one value with --set)", key, rng)
+		return sweep.Axis{}, usagef("%s: with N = 1, FROM and TO must be equal (or fix one value with --set)", at)
 	}
 	if err := a.Check(); err != nil {
-		return sweep.Axis{}, usagef("--vary %s=%s: %v", key, rng, err)
+		return sweep.Axis{}, usagef("%s: %v", at, err)
 	}
 	return a, nil
 }
@@ -215,7 +213,7 @@ func errorText(pt *sweep.Point) string {
 func writeSweepCSV(env *Env, res *sweep.Result) error {
 	w := csv.NewWriter(env.Stdout)
 	if err := w.Write(sweepColumns(res.Grid)); err != nil {
-		return err
+		return outputErr(err)
 	}
 	metrics := sweepMetrics(res.Grid)
 	row := make([]string, 0, len(res.Grid.Axes)+3+len(metrics))
@@ -233,13 +231,13 @@ func writeSweepCSV(env *Env, res *sweep.Result) error {
 				row = append(row, "")
 			}
 		}
-		row = append(row, errorText(pt))
+		row = append(row, safetext.Line(errorText(pt)))
 		if err := w.Write(row); err != nil {
-			return err
+			return outputErr(err)
 		}
 	}
 	w.Flush()
-	return w.Error()
+	return outputErr(w.Error())
 }
 
 // writeSweepJSON writes the sweep as one JSON object: the scenario, its
@@ -271,8 +269,8 @@ func writeSweepJSON(env *Env, sc *presets.Scenario, res *sweep.Result) error {
 	}
 	// Replace the empty points array that closes the object by the rows.
 	head = bytes.TrimSuffix(head, []byte("[]\n}"))
-	w := bufio.NewWriter(env.Stdout)
-	w.Write(head)
+	w := newStdout(env)
+	w.Write(safetext.JSON(head))
 	w.WriteString("[")
 	metrics := sweepMetrics(res.Grid)
 	o := make(object, 0, len(res.Grid.Axes)+3+len(metrics))
@@ -303,8 +301,8 @@ func writeSweepJSON(env *Env, sc *presets.Scenario, res *sweep.Result) error {
 			w.WriteString(",")
 		}
 		w.WriteString("\n    ")
-		w.Write(row)
+		w.Write(safetext.JSON(row))
 	}
 	w.WriteString("\n  ]\n}\n")
-	return w.Flush()
+	return flushStdout(w)
 }

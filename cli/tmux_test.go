@@ -10,14 +10,16 @@ import (
 	"time"
 )
 
-// tmuxPane drives the real binary in a tmux pane on a private tmux server.
+// tmuxPane drives the real binary in a tmux pane on a private tmux server
+// whose socket is in the test's temporary folder, so that nothing is left
+// in /tmp.
 type tmuxPane struct {
 	t      *testing.T
-	socket string
+	socket string // path
 }
 
 func (p *tmuxPane) run(args ...string) (string, error) {
-	out, err := exec.Command("tmux", append([]string{"-L", p.socket}, args...)...).CombinedOutput()
+	out, err := exec.Command("tmux", append([]string{"-S", p.socket}, args...)...).CombinedOutput()
 	return string(out), err
 }
 
@@ -72,12 +74,15 @@ func (p *tmuxPane) gone() bool {
 // given environment and arguments.
 func startTmux(t *testing.T, bin string, w, h int, env string, args ...string) *tmuxPane {
 	t.Helper()
-	p := &tmuxPane{t: t, socket: fmt.Sprintf("pvcouple-test-%d-%d", os.Getpid(), time.Now().UnixNano())}
+	p := &tmuxPane{t: t, socket: filepath.Join(t.TempDir(), "tmux")}
 	cmd := fmt.Sprintf("env %s %s %s", env, bin, strings.Join(args, " "))
 	if out, err := p.run("-f", "/dev/null", "new-session", "-d", "-s", "x", "-x", fmt.Sprint(w), "-y", fmt.Sprint(h), cmd); err != nil {
 		t.Fatalf("tmux: %v %s", err, out)
 	}
-	t.Cleanup(func() { _, _ = p.run("kill-server") })
+	t.Cleanup(func() {
+		_, _ = p.run("kill-server")
+		os.Remove(p.socket)
+	})
 	return p
 }
 
@@ -144,15 +149,8 @@ func readoutFields(screen, label string) []string {
 // builds the binary and returns its path.
 func buildForTmux(t *testing.T) string {
 	t.Helper()
-	if testing.Short() {
-		t.Skip("builds the binary and runs tmux")
-	}
 	if _, err := exec.LookPath("tmux"); err != nil {
 		t.Skip("no tmux")
 	}
-	bin := filepath.Join(t.TempDir(), "pvcouple")
-	if out, err := exec.Command("go", "build", "-o", bin, "pvcouple").CombinedOutput(); err != nil {
-		t.Fatalf("build: %v\n%s", err, out)
-	}
-	return bin
+	return buildBinary(t)
 }

@@ -5,6 +5,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"pvcouple/internal/safetext"
 )
 
 // checkFileError fails unless err is a *FileError naming the file.
@@ -39,10 +41,16 @@ func FuzzParseScenario(f *testing.F) {
 		}
 		if err != nil {
 			checkFileError(t, err, "fuzz.yaml")
+			if s := err.Error(); s != safetext.Line(s) {
+				t.Fatalf("error not escaped: %q", s)
+			}
 			return
 		}
 		if err := sc.Params.Validate(); err != nil {
 			t.Fatalf("accepted invalid parameters: %v", err)
+		}
+		if safetext.CheckLine(sc.Name) != nil || safetext.CheckLine(sc.Description) != nil || safetext.CheckText(sc.Notes) != nil {
+			t.Fatalf("accepted control characters: %q %q %q", sc.Name, sc.Description, sc.Notes)
 		}
 		if sc.Baseline != nil {
 			if err := sc.Baseline.Validate(); err != nil {
@@ -95,7 +103,13 @@ func FuzzParseProtocol(f *testing.F) {
 		if len(pr.Steps) == 0 || n < 1 || n > MaxProtocolBeats {
 			t.Fatalf("accepted %d steps of %d beats", len(pr.Steps), n)
 		}
+		if safetext.CheckLine(pr.Name) != nil || safetext.CheckLine(pr.Description) != nil || safetext.CheckText(pr.Notes) != nil {
+			t.Fatalf("accepted control characters: %q %q %q", pr.Name, pr.Description, pr.Notes)
+		}
 		for _, s := range pr.Steps {
+			if safetext.CheckLine(s.Label) != nil {
+				t.Fatalf("accepted the label %q", s.Label)
+			}
 			if s.Label == "" || s.Beats < 1 || (s.Kind == StepHold) != (len(s.Changes) == 0) {
 				t.Fatalf("accepted step %+v", s)
 			}

@@ -2,12 +2,14 @@ package presets
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"path/filepath"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
@@ -130,6 +132,16 @@ func LoadProtocol(path string) (*Protocol, error) {
 	return ParseProtocol(data, path)
 }
 
+// ReadProtocol reads a protocol from r (at most MaxFileSize bytes) and
+// strictly checks it; name labels errors and names a protocol without one.
+func ReadProtocol(r io.Reader, name string) (*Protocol, error) {
+	data, err := readAllCapped(r, name, "protocol")
+	if err != nil {
+		return nil, err
+	}
+	return ParseProtocol(data, name)
+}
+
 // protocolKeys are the keys of a protocol file, in the order of the schema.
 const protocolKeys = "version, name, description, notes, steps"
 
@@ -164,8 +176,8 @@ func ParseProtocol(data []byte, source string) (*Protocol, error) {
 			if !ok {
 				return fe(v, k.Value, "must be text")
 			}
-			if k.Value != "notes" && strings.ContainsAny(s, "\n\r") {
-				return fe(v, k.Value, "must be one line")
+			if err := checkText(k.Value, s); err != nil {
+				return fe(v, k.Value, "%v", err)
 			}
 			switch k.Value {
 			case "name":
@@ -192,7 +204,7 @@ func ParseProtocol(data []byte, source string) (*Protocol, error) {
 		return nil, fe(root, "steps", "missing; list the steps (set, scale, ramp or hold)")
 	}
 	if pr.Name == "" {
-		pr.Name = strings.TrimSuffix(filepath.Base(source), filepath.Ext(source))
+		pr.Name = safetext.Line(strings.TrimSuffix(filepath.Base(source), filepath.Ext(source)))
 	}
 	if stepsNode.Kind != yaml.SequenceNode || len(stepsNode.Content) == 0 {
 		return nil, fe(stepsNode, "steps", "must be a list of one or more steps, each `- label: …` with set, scale, ramp or hold")
@@ -240,6 +252,9 @@ func parseStep(n *yaml.Node, i int, file string) (Step, error) {
 			s = strings.TrimSpace(s)
 			if s == "" || strings.ContainsAny(s, "\n\r") || len([]rune(s)) > MaxLabelLength {
 				return fe(v, key, "must be one line of 1 to %d characters", MaxLabelLength)
+			}
+			if err := checkText("label", s); err != nil {
+				return fe(v, key, "%v", err)
 			}
 			st.Label = s
 		case "set", "scale", "ramp", "hold":

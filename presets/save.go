@@ -9,14 +9,16 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/google/renameio/v2"
 	"go.yaml.in/yaml/v3"
 
+	"pvcouple/internal/atomicfile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
-// ErrExists is returned by SaveScenario when the file exists and force is false.
-var ErrExists = errors.New("file exists")
+// ErrExists is returned by SaveScenario when the file exists and force is
+// false (also when it appeared while the scenario was written).
+var ErrExists = atomicfile.ErrExists
 
 // Marshal returns the scenario as YAML in schema version 1, every parameter
 // written with the shortest decimal that reads back exactly, in the order of
@@ -80,22 +82,38 @@ func numberNode(x float64) *yaml.Node {
 	return &yaml.Node{Kind: yaml.ScalarNode, Tag: tag, Value: v}
 }
 
+// checkText refuses a name, description or notes that a load would refuse.
+func (s *Scenario) checkText() error {
+	for _, f := range []struct{ key, val string }{{"name", s.Name}, {"description", s.Description}, {"notes", s.Notes}} {
+		if err := checkText(f.key, f.val); err != nil {
+			return fmt.Errorf("cannot save scenario: its %s %s: %w", f.key, QuoteShort(f.val), err)
+		}
+	}
+	return nil
+}
+
 // SaveScenario writes s to path atomically (a temporary file renamed into
 // place, so a failure leaves any old file intact). It refuses to replace an
 // existing file unless force is set, returning an error wrapping ErrExists.
 func SaveScenario(path string, s *Scenario, force bool) error {
+	if err := s.checkText(); err != nil {
+		return err
+	}
 	data, err := s.Marshal()
 	if err != nil {
 		return fmt.Errorf("cannot encode scenario: %w", err)
 	}
 	if !force {
 		if _, err := os.Lstat(path); err == nil {
-			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", path, ErrExists)
+			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", safetext.Line(path), ErrExists)
 		} else if !errors.Is(err, fs.ErrNotExist) {
 			return fmt.Errorf("cannot save scenario: %w", err)
 		}
 	}
-	if err := renameio.WriteFile(path, data, 0o644); err != nil {
+	if err := atomicfile.WriteFile(path, data, force); err != nil {
+		if errors.Is(err, ErrExists) {
+			return fmt.Errorf("%s: %w (choose another name, or overwrite with --force)", safetext.Line(path), ErrExists)
+		}
 		return fmt.Errorf("cannot save scenario: %w", err)
 	}
 	return nil

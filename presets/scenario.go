@@ -5,12 +5,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strconv"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 )
 
@@ -44,18 +44,21 @@ type FileError struct {
 	Msg  string
 }
 
+// Error names the place and says what is wrong, on one line; whatever came
+// from the file (a key, a value) is escaped so that it cannot act on a
+// terminal.
 func (e *FileError) Error() string {
 	var b strings.Builder
-	b.WriteString(e.File)
+	b.WriteString(safetext.Line(e.File))
 	if e.Line > 0 {
 		fmt.Fprintf(&b, ":%d", e.Line)
 	}
 	b.WriteString(": ")
 	if e.Key != "" {
-		b.WriteString(e.Key)
+		b.WriteString(safetext.Line(e.Key))
 		b.WriteString(": ")
 	}
-	b.WriteString(e.Msg)
+	b.WriteString(safetext.Line(e.Msg))
 	return b.String()
 }
 
@@ -66,6 +69,16 @@ func LoadScenario(path string) (*Scenario, error) {
 		return nil, err
 	}
 	return ParseScenario(data, path)
+}
+
+// ReadScenario reads a scenario from r (at most MaxFileSize bytes) and
+// strictly checks it; name labels errors.
+func ReadScenario(r io.Reader, name string) (*Scenario, error) {
+	data, err := readAllCapped(r, name, "scenario")
+	if err != nil {
+		return nil, err
+	}
+	return ParseScenario(data, name)
 }
 
 // ParseScenario strictly decodes a scenario; name labels errors (a file name).
@@ -102,6 +115,9 @@ func ParseScenario(data []byte, name string) (*Scenario, error) {
 		case "name", "description", "notes", "base":
 			if v.Kind != yaml.ScalarNode || v.Tag != "!!str" && v.Tag != "!!null" {
 				return nil, fe(v, k.Value, "must be text")
+			}
+			if err := checkText(k.Value, v.Value); err != nil {
+				return nil, fe(v, k.Value, "%v", err)
 			}
 			switch k.Value {
 			case "name":
@@ -229,19 +245,18 @@ func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (m
 	return p, nil
 }
 
-// scalarNumber reads a finite number from a YAML scalar.
+// scalarNumber reads a finite number from a YAML scalar. Whatever YAML
+// resolves a plain scalar to (0x10 is an integer, 0x1p3 and 1e999 text),
+// ParseNumber decides, as for --set; a quoted value is text.
 func scalarNumber(v *yaml.Node) (float64, error) {
 	switch {
 	case v.Kind == yaml.MappingNode:
 		return 0, errors.New("a mapping is not a number")
 	case v.Kind == yaml.SequenceNode:
 		return 0, errors.New("a list is not a number")
-	case v.Kind != yaml.ScalarNode || (v.Tag != "!!int" && v.Tag != "!!float"):
-		return 0, fmt.Errorf("%q is not a number", v.Value)
+	case v.Kind != yaml.ScalarNode || v.Style&(yaml.DoubleQuotedStyle|yaml.SingleQuotedStyle|yaml.LiteralStyle|yaml.FoldedStyle) != 0 ||
+		v.Tag != "!!int" && v.Tag != "!!float" && v.Tag != "!!str":
+		return 0, fmt.Errorf("%s is not a number", QuoteShort(v.Value))
 	}
-	x, err := strconv.ParseFloat(strings.ReplaceAll(v.Value, "_", ""), 64)
-	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
-		return 0, fmt.Errorf("%q is not a finite number", v.Value)
-	}
-	return x, nil
+	return ParseNumber(v.Value)
 }

@@ -1,13 +1,16 @@
 package presets
 
 import (
+	"errors"
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 	"strings"
 
 	"go.yaml.in/yaml/v3"
+
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 )
 
 // MaxFileSize is the largest scenario or protocol file read, bytes. The
@@ -16,21 +19,45 @@ import (
 const MaxFileSize = 1 << 20
 
 // readCapped reads a file of at most MaxFileSize bytes; what names the kind of
-// file in errors.
+// file in errors. A path that is not a regular file (a named pipe, a device,
+// a folder) is refused before it is opened.
 func readCapped(path, what string) ([]byte, error) {
-	f, err := os.Open(path)
+	f, err := safefile.Open(path)
 	if err != nil {
 		return nil, fmt.Errorf("cannot read %s: %w", what, err)
 	}
 	defer f.Close()
-	data, err := io.ReadAll(io.LimitReader(f, MaxFileSize+1))
+	return readAllCapped(f, path, what)
+}
+
+// readAllCapped reads r to its end, refusing more than MaxFileSize bytes.
+func readAllCapped(r io.Reader, name, what string) ([]byte, error) {
+	data, err := io.ReadAll(io.LimitReader(r, MaxFileSize+1))
 	if err != nil {
-		return nil, fmt.Errorf("cannot read %s: %w", what, err)
+		return nil, fmt.Errorf("cannot read %s %s: %w", what, name, err)
 	}
 	if len(data) > MaxFileSize {
-		return nil, &FileError{File: path, Msg: fmt.Sprintf("larger than %d KiB: not a %s file", MaxFileSize>>10, what)}
+		return nil, &FileError{File: name, Msg: fmt.Sprintf("larger than %d KiB: not a %s file", MaxFileSize>>10, what)}
 	}
 	return data, nil
+}
+
+// checkText refuses control characters in the text field key: notes may
+// span lines (newlines and tabs are allowed there); every other text field
+// is one line. A name or label is printed on terminals and in tables, where
+// an escape sequence would act instead of being read.
+func checkText(key, s string) error {
+	check := safetext.CheckLine
+	if key == "notes" {
+		check = safetext.CheckText
+	}
+	if err := check(s); err != nil {
+		if key != "notes" && strings.ContainsAny(s, "\n\r") {
+			return errors.New("must be one line")
+		}
+		return err
+	}
+	return nil
 }
 
 // rejectAliases refuses YAML aliases (*name) and merge keys anywhere in the

@@ -42,6 +42,8 @@ func (m *Model) follow() tea.Cmd {
 // prompt quits without the quit key.
 func (m *Model) Close() {
 	m.closed = true
+	m.stopLoad()
+	m.tenant.Close()
 	for _, v := range m.views {
 		if c, ok := v.(closer); ok {
 			c.Close()

@@ -41,6 +41,7 @@ type mapView struct {
 	err      error        // why no map could be made for failedAt
 	failedAt model.Params // the setting err belongs to
 	closed   bool
+	gate     sweep.Gate // the explorer's share of the pool, for the map's points
 }
 
 // Default levers and metric of the map: stroke work over systemic
@@ -151,7 +152,7 @@ func (v *mapView) start(p model.Params, nx, ny int) tea.Cmd {
 	g, err := sweep.MapAround(p, model.Levers[v.kx].Key, model.Levers[v.ky].Key, nx, ny)
 	var job *sweep.Job
 	if err == nil {
-		job, err = sweep.Start(context.Background(), g, sweep.Options{})
+		job, err = sweep.Start(context.Background(), g, sweep.Options{Gate: v.gate})
 	}
 	if err != nil {
 		v.err, v.failedAt = err, p

@@ -1,10 +1,15 @@
 package ui
 
 import (
+	"context"
 	"fmt"
 	"path/filepath"
 	"strings"
 
+	tea "github.com/charmbracelet/bubbletea"
+
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/model/analysis"
 )
@@ -29,7 +34,7 @@ func newRecording(path string, a *analysis.Analysis) (*recording, error) {
 	if len(ov.Loops) == 0 {
 		return nil, fmt.Errorf("%s: no whole beat to overlay", path)
 	}
-	r := &recording{path: path, name: filepath.Base(path), ov: ov, kept: len(ov.Loops)}
+	r := &recording{path: path, name: safetext.Line(filepath.Base(path)), ov: ov, kept: len(ov.Loops)}
 	if i := ov.Representative; i >= 0 {
 		for _, b := range a.Beats {
 			if b.Index == ov.Loops[i].Beat && b.Measured {
@@ -40,19 +45,48 @@ func newRecording(path string, a *analysis.Analysis) (*recording, error) {
 	return r, nil
 }
 
-// openRecording reads, analyses and overlays a recording. A file that cannot
-// be read or analysed changes nothing; the status line names the file, the
-// line and the column at fault.
-func (m *Model) openRecording(path string) {
-	a, err := analysis.Open(path, analysis.ReadOptions{}, analysis.Options{})
-	var rec *recording
-	if err == nil {
-		rec, err = newRecording(path, a)
-	}
-	if err != nil {
-		m.setError("Recording not opened: " + err.Error())
-		return
-	}
+// recordingLoad reads and analyses a recording off the update loop. A file
+// that cannot be read or analysed changes nothing; the status line names the
+// file, the line and the column at fault.
+var recordingLoad = fileLoad{
+	what: "recording",
+	then: "Analysing",
+	read: func(ctx context.Context, f *safefile.File, path string) (any, error) {
+		r, err := analysis.ReadCSV(f, path, analysis.ReadOptions{})
+		if err != nil {
+			return nil, err
+		}
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		a, err := analysis.Analyze(r, analysis.Options{})
+		if err != nil {
+			return nil, err
+		}
+		rec, err := newRecording(path, a)
+		if err != nil {
+			return nil, err
+		}
+		return &openedRecording{rec: rec, a: a}, nil
+	},
+	apply: func(m *Model, path string, res any) tea.Cmd {
+		o := res.(*openedRecording)
+		m.showRecording(path, o.rec, o.a)
+		return nil
+	},
+}
+
+// openedRecording is a recording read and analysed.
+type openedRecording struct {
+	rec *recording
+	a   *analysis.Analysis
+}
+
+// openRecording reads, analyses and overlays a recording in the background.
+func (m *Model) openRecording(path string) tea.Cmd { return m.startLoad(recordingLoad, path) }
+
+// showRecording overlays an analysed recording and says what it holds.
+func (m *Model) showRecording(path string, rec *recording, a *analysis.Analysis) {
 	m.st.rec = rec
 	m.lastRecPath = path
 	for _, v := range m.views {

@@ -11,11 +11,13 @@ import (
 	"pvcouple/presets"
 )
 
-// picker is the list of built-in presets.
+// picker is a list to choose from: the built-in presets, the protocols, a
+// lab server's files.
 type picker struct {
 	names []string
 	descs []string
 	sel   int
+	rows  int // entries shown at most, around the selected one; 0 shows all
 }
 
 // openPicker shows the preset list with the current scenario selected.
@@ -57,8 +59,13 @@ func (p *picker) navigate(msg tea.KeyMsg, k KeyMap) bool {
 func (p *picker) render(s *Styles, heading, note string, nameWidth, w, gapBefore int, enter string) string {
 	var b strings.Builder
 	b.WriteString(s.Heading.Render(heading) + s.Dim.Render("  "+note) + "\n\n")
-	for i, n := range p.names {
-		mark, name := "  ", fmt.Sprintf("%-*s", nameWidth, n)
+	from, to := p.window()
+	if from > 0 {
+		b.WriteString(s.Dim.Render(fmt.Sprintf("  ↑ %d more", from)) + "\n")
+	}
+	for i := from; i < to; i++ {
+		n := p.names[i]
+		mark, name := "  ", fmt.Sprintf("%-*s", nameWidth, ansi.Truncate(n, nameWidth-1, "…"))
 		if i == p.sel {
 			mark, name = s.Selected.Render("▸ "), s.Selected.Render(name)
 		}
@@ -68,8 +75,22 @@ func (p *picker) render(s *Styles, heading, note string, nameWidth, w, gapBefore
 		}
 		b.WriteString(mark + name + s.Dim.Render(desc) + "\n")
 	}
+	if to < len(p.names) {
+		b.WriteString(s.Dim.Render(fmt.Sprintf("  ↓ %d more", len(p.names)-to)) + "\n")
+	}
 	b.WriteString("\n" + s.Dim.Render("↑/↓ choose · Enter "+enter+" · Esc cancel"))
 	return s.Box.Render(b.String())
+}
+
+// window is the range of entries shown: all of them, or rows of them with
+// the selected one inside.
+func (p *picker) window() (from, to int) {
+	n := len(p.names)
+	if p.rows <= 0 || n <= p.rows {
+		return 0, n
+	}
+	from = min(max(p.sel-p.rows/2, 0), n-p.rows)
+	return from, from + p.rows
 }
 
 // pickerKey moves in the list, loads the chosen preset on Enter, closes on Esc.

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -9,6 +10,7 @@ import (
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/safefile"
 	"pvcouple/presets"
 )
 
@@ -24,10 +26,13 @@ type playTickMsg struct{ run, seq int }
 // protocol that does not fit the levers (a step would leave a lever's
 // range) changes nothing and says where in the file.
 func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
-	r, err := newPlayRun(m.runs+1, pr, m.st.target)
-	if err == nil {
-		err = r.next()
-	}
+	var r *playRun
+	var err error
+	m.compute(func() {
+		if r, err = newPlayRun(m.runs+1, pr, m.st.target); err == nil {
+			err = r.next()
+		}
+	})
 	if err != nil {
 		m.setError(err.Error()) // it names the protocol file first
 		return nil
@@ -44,16 +49,22 @@ func (m *Model) startProtocol(pr *presets.Protocol) tea.Cmd {
 	return m.nextTick()
 }
 
-// playFile plays the protocol file at path.
-func (m *Model) playFile(path string) tea.Cmd {
-	pr, err := presets.LoadProtocol(path)
-	if err != nil {
-		m.setError(err.Error())
-		return nil
-	}
-	m.lastProtocolPath = path
-	return m.startProtocol(pr)
+// protocolLoad reads a protocol file off the update loop; it plays from the
+// levers as they are when it has been read.
+var protocolLoad = fileLoad{
+	what: "protocol",
+	then: "Checking",
+	read: func(_ context.Context, f *safefile.File, path string) (any, error) {
+		return presets.ReadProtocol(f, path)
+	},
+	apply: func(m *Model, path string, res any) tea.Cmd {
+		m.lastProtocolPath = path
+		return m.startProtocol(res.(*presets.Protocol))
+	},
 }
+
+// playFile reads the protocol file at path in the background and plays it.
+func (m *Model) playFile(path string) tea.Cmd { return m.startLoad(protocolLoad, path) }
 
 // nextTick asks for the next beat after the beat on screen has shown for
 // its period at the playing speed.
@@ -88,7 +99,8 @@ func (m *Model) advance() bool {
 	if v.cur+1 < len(r.beats) {
 		v.cur++
 	} else {
-		err := r.next()
+		var err error
+		m.compute(func() { err = r.next() })
 		switch {
 		case errors.Is(err, io.EOF):
 			m.setStatus(m.endText())

@@ -10,6 +10,7 @@ import (
 	"github.com/charmbracelet/x/ansi"
 	"github.com/muesli/termenv"
 
+	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
 )
@@ -181,8 +182,8 @@ func (v *playView) fitAxes() {
 func (v *playView) header() []string {
 	r, b := v.run, v.beat()
 	lines := []string{
-		spread(v.s, r.pr.Name, v.stateText(v.w >= 60), v.w),
-		fmt.Sprintf("beat %d of %d · %s · t %s s", b.Index+1, r.total(), r.plan.Label(b.Index), fmtNum(b.TStart, 2)),
+		spread(v.s, safetext.Line(r.pr.Name), v.stateText(v.w >= 60), v.w),
+		fmt.Sprintf("beat %d of %d · %s · t %s s", b.Index+1, r.total(), safetext.Line(r.plan.Label(b.Index)), fmtNum(b.TStart, 2)),
 		"",
 	}
 	// The levers as fully as they fit: full names, short names, no units,

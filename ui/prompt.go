@@ -1,9 +1,11 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"os"
+	"path"
 	"path/filepath"
 	"strings"
 
@@ -12,6 +14,9 @@ import (
 	"github.com/charmbracelet/bubbles/textinput"
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/safefile"
+	"pvcouple/internal/safetext"
+	"pvcouple/model"
 	"pvcouple/presets"
 )
 
@@ -46,6 +51,10 @@ var promptVerb = map[promptKind]string{promptSave: "saves", promptOpen: "opens",
 
 // openPrompt asks for a path to save to, open from, play or overlay.
 func (m *Model) openPrompt(kind promptKind) tea.Cmd {
+	if m.folders != nil && kind != promptSave {
+		m.openFiles(promptFiles[kind]) // a list of the session's files instead
+		return nil
+	}
 	m.promptFor = kind
 	m.prompt.Reset()
 	switch kind {
@@ -54,6 +63,10 @@ func (m *Model) openPrompt(kind promptKind) tea.Cmd {
 		v := m.lastPath
 		if v == "" {
 			v = m.st.name + ".yaml"
+		}
+		if m.folders != nil {
+			m.prompt.Prompt = "Save scenario in your folder as: "
+			v = path.Base(v)
 		}
 		m.prompt.SetValue(v)
 	case promptOpen:
@@ -84,7 +97,10 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 	case key.Matches(msg, m.keys.Confirm):
 		m.mode = modeMain
 		m.prompt.Blur()
-		path := expandHome(strings.TrimSpace(m.prompt.Value()))
+		path := strings.TrimSpace(m.prompt.Value())
+		if m.folders == nil {
+			path = expandHome(path)
+		}
 		if path == "" {
 			m.setError("No path given: nothing saved or opened.")
 			return nil
@@ -93,11 +109,11 @@ func (m *Model) promptKey(msg tea.KeyMsg) tea.Cmd {
 		case promptSave:
 			m.save(path, false)
 		case promptOpen:
-			m.open(path)
+			return m.open(path)
 		case promptProtocol:
 			return m.playFile(path)
 		case promptRecording:
-			m.openRecording(path)
+			return m.openRecording(path)
 		}
 		return nil
 	}
@@ -120,51 +136,89 @@ func (m *Model) confirmKey(msg tea.KeyMsg) tea.Cmd {
 	return nil
 }
 
-// save writes the levers and the baseline to path as a scenario. An
-// existing file is replaced only after the user confirms.
+// save writes the levers and the baseline to path as a scenario (in a lab
+// server's session, to that name in the fellow's folder). An existing file
+// is replaced only after the user confirms.
 func (m *Model) save(path string, force bool) {
+	if m.folders != nil {
+		m.saveInFolder(path, force)
+		return
+	}
+	sc := m.toSave(strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)))
+	if dir := filepath.Dir(path); !isDir(dir) {
+		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
+		return
+	}
+	m.saved(path, path, presets.SaveScenario(path, sc, force))
+}
+
+// toSave is the scenario that s saves as name: the levers and the baseline.
+func (m *Model) toSave(name string) *presets.Scenario {
 	sc := &presets.Scenario{
 		Version:     presets.SchemaVersion,
-		Name:        strings.TrimSuffix(filepath.Base(path), filepath.Ext(path)),
-		Description: "Saved from pvcouple explore, started from " + m.st.origin,
+		Name:        safetext.Line(name),
+		Description: "Saved from pvcouple explore, started from " + safetext.Line(m.st.origin),
 		Params:      m.st.target,
 	}
 	if m.st.base != nil {
 		b := m.st.base.Params
 		sc.Baseline = &b
 	}
-	if dir := filepath.Dir(path); !isDir(dir) {
-		m.setError(fmt.Sprintf("Not saved: there is no folder %s for %s.", dir, path))
-		return
-	}
-	err := presets.SaveScenario(path, sc, force)
+	return sc
+}
+
+// saved reports a save to name (as typed) shown as where: an existing file
+// asks whether to overwrite it.
+func (m *Model) saved(name, where string, err error) {
 	switch {
 	case errors.Is(err, presets.ErrExists):
-		m.confirm = path
+		m.confirm = name
 		m.mode = modeConfirm
-		m.setError(path + " exists. Overwrite it? y overwrites, any other key keeps it.")
+		m.setError(where + " exists. Overwrite it? y overwrites, any other key keeps it.")
 	case err != nil:
 		m.setError("Not saved: " + err.Error())
 	default:
-		m.lastPath = path
-		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", path))
+		m.lastPath = where
+		m.setStatus(fmt.Sprintf("Saved levers and baseline to %s.", where))
 	}
 }
 
-// open loads a scenario file; a file that fails to load or solve changes
-// nothing on screen.
-func (m *Model) open(path string) {
-	sc, err := presets.LoadScenario(path)
-	if err == nil {
-		err = m.load(sc, path)
-	}
-	if err != nil {
-		m.setError("Not opened: " + err.Error())
-		return
-	}
-	m.lastPath = path
-	m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, sc.Name))
+// scenarioLoad reads a scenario file and solves it and its baseline off the
+// update loop; a file that fails to load or solve changes nothing on screen.
+var scenarioLoad = fileLoad{
+	what: "scenario",
+	then: "Solving",
+	read: func(ctx context.Context, f *safefile.File, path string) (any, error) {
+		sc, err := presets.ReadScenario(f, path)
+		if err != nil {
+			return nil, err
+		}
+		var cur, base *model.Steady
+		if perr := inPool(ctx, func() { cur, base, err = solveScenario(model.NewSolver(), sc, path) }); perr != nil {
+			return nil, perr
+		}
+		if err != nil {
+			return nil, err
+		}
+		return &openedScenario{sc: sc, cur: cur, base: base}, nil
+	},
+	apply: func(m *Model, path string, res any) tea.Cmd {
+		o := res.(*openedScenario)
+		m.show(o.sc, path, o.cur, o.base)
+		m.lastPath = path
+		m.setStatus(fmt.Sprintf("Opened %s (%s). u undoes.", path, o.sc.Name))
+		return nil
+	},
 }
+
+// openedScenario is a scenario read and solved.
+type openedScenario struct {
+	sc        *presets.Scenario
+	cur, base *model.Steady
+}
+
+// open reads a scenario file in the background.
+func (m *Model) open(path string) tea.Cmd { return m.startLoad(scenarioLoad, path) }
 
 // expandHome replaces a leading ~/ by the home directory.
 func expandHome(p string) string {

@@ -28,6 +28,8 @@ func (m *Model) View() string {
 		body = m.overlay(m.renderPicker())
 	case modeProtocols:
 		body = m.overlay(m.renderProtocols())
+	case modeFiles:
+		body = m.overlay(m.renderFiles())
 	default:
 		body = m.renderBody()
 	}

@@ -1,48 +1,104 @@
 package ui
 
 import (
+	"context"
 	"errors"
 	"fmt"
+	"sync"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 
+	"pvcouple/internal/pool"
 	"pvcouple/model"
 )
 
 // solvedMsg carries the result of one steady-state solve back to Update.
 type solvedMsg struct {
-	gen     int          // generation of the lever setting it solved
+	gen     int          // generation of the lever setting it solved; −1 when none was wanted
 	params  model.Params // the setting it solved
 	st      *model.Steady
 	err     error
 	elapsed time.Duration
 }
 
-// solveCmd solves p on the worker's solver, starting from warm. Only one
-// solve runs at a time (see Model.requestSolve), so the solver is never used
-// by two goroutines at once.
-func solveCmd(s *model.Solver, gen int, p model.Params, warm model.Warm) tea.Cmd {
+// wanted is the setting the next solve is to be of. The UI goroutine sets
+// it; the solve reads it only once its turn in the pool has come, so a
+// setting superseded while the solve waited (keys held down, a busy
+// machine) is never solved.
+type wanted struct {
+	mu   sync.Mutex
+	ok   bool // a setting is wanted
+	gen  int
+	p    model.Params
+	warm model.Warm
+}
+
+// set asks for setting p of generation gen, warm-started from warm.
+func (w *wanted) set(gen int, p model.Params, warm model.Warm) {
+	w.mu.Lock()
+	w.ok, w.gen, w.p, w.warm = true, gen, p, warm
+	w.mu.Unlock()
+}
+
+// drop forgets the setting asked for: it is on screen already.
+func (w *wanted) drop() {
+	w.mu.Lock()
+	w.ok = false
+	w.mu.Unlock()
+}
+
+// take returns the setting wanted now and forgets it.
+func (w *wanted) take() (gen int, p model.Params, warm model.Warm, ok bool) {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	gen, p, warm, ok = w.gen, w.p, w.warm, w.ok
+	w.ok = false
+	return
+}
+
+// solveCmd solves the setting wanted when its turn in the pool comes, on
+// the worker's solver. Only one solve runs at a time (see
+// Model.requestSolve), so the solver is never used by two goroutines at
+// once.
+func solveCmd(t *pool.Tenant, s *model.Solver, w *wanted) tea.Cmd {
 	return func() tea.Msg {
-		t0 := time.Now()
-		st, err := s.SteadyState(p, &warm)
-		return solvedMsg{gen: gen, params: p, st: st, err: err, elapsed: time.Since(t0)}
+		msg := solvedMsg{gen: -1}
+		err := t.Do(context.Background(), pool.Interactive, func() {
+			gen, p, warm, ok := w.take()
+			if !ok {
+				return
+			}
+			t0 := time.Now()
+			st, err := s.SteadyState(p, &warm)
+			msg = solvedMsg{gen: gen, params: p, st: st, err: err, elapsed: time.Since(t0)}
+		})
+		if err != nil {
+			msg = solvedMsg{gen: -1} // the session has ended
+		}
+		return msg
 	}
 }
 
 // requestSolve asks for the levers' setting to be solved. While a solve
-// runs, it only marks the setting as wanted: when the running solve returns,
-// the latest setting is solved next, so held-down keys never queue up work.
+// runs or waits for its turn, it only changes the setting wanted: the
+// waiting solve takes the latest, and when a running one returns, the
+// latest setting is solved next, so held-down keys never queue up work.
 func (m *Model) requestSolve() tea.Cmd {
-	if m.inflight || m.st.settled() {
+	if m.st.settled() {
+		m.want.drop()
 		return nil
 	}
-	m.inflight = true
 	var warm model.Warm
 	if m.st.shown != nil {
 		warm = m.st.shown.Warm
 	}
-	return solveCmd(m.solver, m.gen, m.st.target, warm)
+	m.want.set(m.gen, m.st.target, warm)
+	if m.inflight {
+		return nil
+	}
+	m.inflight = true
+	return solveCmd(m.tenant, m.solver, &m.want)
 }
 
 // solved takes a solve's result: a settled loop goes on screen even if the
@@ -52,7 +108,8 @@ func (m *Model) solved(msg solvedMsg) tea.Cmd {
 	m.inflight = false
 	switch {
 	case msg.gen < m.floor:
-		// Asked for before a scenario was replaced: stale.
+		// Asked for before a scenario was replaced, or nothing was
+		// wanted by the time the solve's turn came: stale.
 	case msg.err == nil:
 		m.st.shown = msg.st
 		if msg.gen == m.gen && m.pending != "" {
@@ -67,6 +124,35 @@ func (m *Model) solved(msg solvedMsg) tea.Cmd {
 		m.setError(solveFailure(msg.err))
 	}
 	return m.requestSolve()
+}
+
+// compute runs fn, model work the UI goroutine waits for (a scenario being
+// opened, a protocol's beat), in a slot of the pool like every solve.
+func (m *Model) compute(fn func()) {
+	if err := m.tenant.Do(context.Background(), pool.Interactive, fn); err != nil {
+		fn() // the session is ending: nothing waits for a slot any more
+	}
+}
+
+// tenantKey carries an explorer's tenant in the context of a load.
+type tenantKey struct{}
+
+// inPool runs fn, model work of a load, in a slot of the tenant that ctx
+// carries (see startLoadWith); it returns ctx's error if the load was
+// cancelled while it waited.
+func inPool(ctx context.Context, fn func()) error {
+	t, ok := ctx.Value(tenantKey{}).(*pool.Tenant)
+	if !ok {
+		fn()
+		return nil
+	}
+	if err := t.Do(ctx, pool.Interactive, fn); err != nil {
+		if ctx.Err() != nil {
+			return ctx.Err()
+		}
+		fn() // the tenant is closed: the explorer is ending
+	}
+	return nil
 }
 
 // solveFailure words a failed solve for the status line.

@@ -20,6 +20,10 @@ func (m *Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, m.solved(msg)
 	case playTickMsg:
 		return m, m.playTick(msg)
+	case loadedMsg:
+		return m, m.loaded(msg)
+	case loadTickMsg:
+		return m, m.loadProgress(msg)
 	case tea.KeyMsg:
 		// Esc and a key typed quickly after it (or sent together over a
 		// slow link) arrive as Alt and the key: take them as both.
@@ -57,6 +61,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return m.confirmKey(msg)
 	case modeProtocols:
 		return m.protocolsKey(msg)
+	case modeFiles:
+		return m.filesKey(msg)
 	}
 	k := m.keys
 	switch {
@@ -65,6 +71,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		return tea.Quit
 	case key.Matches(msg, k.Help):
 		m.mode = modeHelp
+	case m.loading != nil && key.Matches(msg, k.Cancel):
+		m.cancelLoad()
 	case m.tooSmall():
 		// Only quitting and help work until the window is large enough.
 	case key.Matches(msg, k.Up):
@@ -205,6 +213,7 @@ func (m *Model) revert() {
 	m.st.target, m.st.shown = m.st.base.Params, m.st.base
 	m.gen++
 	m.floor, m.pending = m.gen, ""
+	m.want.drop()
 	m.setStatus("Back to the baseline.")
 }
 

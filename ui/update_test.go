@@ -178,31 +178,58 @@ func TestSolveFailureKeepsLastLoop(t *testing.T) {
 	}
 }
 
-// Held-down keys never queue solves: while one runs, later nudges only move
-// the target, and the next solve is of the latest target.
+// Held-down keys never queue solves: while one runs or waits for its turn,
+// later nudges only move the target, and a solve whose turn comes solves the
+// latest target, so settings superseded meanwhile are never solved.
 func TestNudgesCoalesce(t *testing.T) {
 	m := sized(t, "normal")
 	var first tea.Cmd
 	_, first = m.Update(keyMsg("up"))
 	for range 5 {
 		if _, cmd := m.Update(keyMsg("up")); cmd != nil {
-			t.Fatal("a nudge started a second solve while one ran")
+			t.Fatal("a nudge started a second solve while one waited")
 		}
 	}
 	if fill(m) != 16 {
 		t.Fatalf("target %g, want 16", fill(m))
 	}
 	msg := first().(solvedMsg)
-	if msg.params.FillingPressure != 11 {
-		t.Fatalf("first solve was of %g", msg.params.FillingPressure)
+	if msg.params.FillingPressure != 16 {
+		t.Fatalf("the waiting solve solved %g, want the latest target 16", msg.params.FillingPressure)
 	}
+	if _, next := m.Update(msg); next != nil || !m.st.settled() || m.inflight {
+		t.Errorf("after the latest target's solve: another solve %v, settled %v", next != nil, m.st.settled())
+	}
+	if !strings.Contains(m.status, "Filling pressure 15 → 16 mmHg · SV") {
+		t.Errorf("status %q: want the last nudge with its result", m.status)
+	}
+
+	// A nudge while a solve runs is solved next.
+	_, first = m.Update(keyMsg("up"))
+	msg = first().(solvedMsg)
+	m.Update(keyMsg("up"))
 	_, next := m.Update(msg)
-	if m.st.shown.Params.FillingPressure != 11 || next == nil {
-		t.Fatalf("the first result was not shown, or no follow-up solve")
+	if next == nil || m.st.shown.Params.FillingPressure != 17 {
+		t.Fatalf("the result for 17 mmHg was not shown, or no follow-up solve")
 	}
 	m.Update(next())
-	if !m.st.settled() || m.st.shown.Params.FillingPressure != 16 {
-		t.Errorf("the follow-up solved %g, want the latest target 16", m.st.shown.Params.FillingPressure)
+	if !m.st.settled() || m.st.shown.Params.FillingPressure != 18 {
+		t.Errorf("the follow-up solved %g, want the latest target 18", m.st.shown.Params.FillingPressure)
+	}
+}
+
+// Back to the baseline while a solve waits: the waiting solve finds nothing
+// to do and the baseline stays on screen.
+func TestRevertDropsWaitingSolve(t *testing.T) {
+	m := sized(t, "normal")
+	_, first := m.Update(keyMsg("up"))
+	keys(m, "r")
+	msg := first().(solvedMsg)
+	if msg.st != nil {
+		t.Errorf("the waiting solve solved %g after the revert", msg.params.FillingPressure)
+	}
+	if _, next := m.Update(msg); next != nil || m.st.shown != m.st.base {
+		t.Error("the baseline did not stay on screen")
 	}
 }
 
@@ -479,7 +506,7 @@ func TestOpenBadFileChangesNothing(t *testing.T) {
 	}{
 		{bad, []string{"bad.yaml:4", "ees_mmhg_per_ml = 40", "allowed 0.2 to 10 mmHg/mL"}},
 		{filepath.Join(dir, "none.yaml"), []string{"none.yaml", "no such file"}},
-		{dir, []string{"is a directory"}},
+		{dir, []string{"is a folder, not a regular file"}},
 	} {
 		m := sized(t, "normal")
 		keys(m, "up")

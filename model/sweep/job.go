@@ -19,6 +19,18 @@ type Options struct {
 	// from a worker goroutine but never by two at once, with Done increasing.
 	// It should return quickly: the worker waits for it.
 	Progress func(Progress)
+	// Gate, if not nil, runs the solve of each point: a worker solves a
+	// point only inside Gate.Do, so a gate shared with other work (see
+	// internal/pool) decides how much of the machine the sweep takes. A
+	// Do that returns an error (its context was cancelled, or the gate
+	// closed) ends the worker.
+	Gate Gate
+}
+
+// Gate runs work when its turn comes; Do returns an error, without running
+// fn, if the wait ends first.
+type Gate interface {
+	Do(ctx context.Context, fn func()) error
 }
 
 // Progress is how far a sweep has come.
@@ -63,6 +75,7 @@ type Job struct {
 	next    atomic.Int64 // next chunk to hand out
 	report  func(Progress)
 	repMu   sync.Mutex // serialises report
+	gate    Gate       // nil: solve at once
 
 	mu     sync.Mutex // guards what follows
 	points []Point
@@ -86,6 +99,7 @@ func Start(ctx context.Context, g Grid, opt Options) (*Job, error) {
 		start:  time.Now(),
 		done:   make(chan struct{}),
 		report: opt.Progress,
+		gate:   opt.Gate,
 		points: make([]Point, total),
 	}
 	j.prog.Total = total
@@ -107,7 +121,7 @@ func Start(ctx context.Context, g Grid, opt Options) (*Job, error) {
 	go func() {
 		wg.Wait()
 		j.mu.Lock()
-		if j.prog.Done < j.total {
+		if j.prog.Done < j.total && j.err == nil {
 			j.err = context.Cause(ctx)
 		}
 		j.ended = time.Since(j.start)
@@ -138,7 +152,11 @@ func (j *Job) work(ctx context.Context, nChunks int) {
 				break
 			}
 			j.grid.Index(i, idx)
-			pt, st := solvePoint(s, j.grid.Params(idx), &warm)
+			pt, st, err := j.solve(ctx, s, j.grid.Params(idx), &warm)
+			if err != nil {
+				j.stop(err)
+				break
+			}
 			if st != nil {
 				warm = st.Warm
 			}
@@ -147,6 +165,27 @@ func (j *Job) work(ctx context.Context, nChunks int) {
 		}
 		j.store(seq[:n], buf[:n])
 	}
+}
+
+// solve solves one point, inside the gate if there is one; the error is
+// the gate's when it gave up waiting.
+func (j *Job) solve(ctx context.Context, s *model.Solver, p model.Params, warm *model.Warm) (pt Point, st *model.Steady, err error) {
+	if j.gate == nil {
+		pt, st = solvePoint(s, p, warm)
+		return pt, st, nil
+	}
+	err = j.gate.Do(ctx, func() { pt, st = solvePoint(s, p, warm) })
+	return pt, st, err
+}
+
+// stop ends the sweep early with err (the first one counts).
+func (j *Job) stop(err error) {
+	j.mu.Lock()
+	if j.err == nil {
+		j.err = err
+	}
+	j.mu.Unlock()
+	j.cancel()
 }
 
 // store files solved points and reports progress.
@@ -199,7 +238,7 @@ func (j *Job) Done() <-chan struct{} { return j.done }
 // Wait waits for the sweep to end and returns its result. If it was
 // cancelled before every point was solved, the result holds the points solved
 // so far and the error is the context's (context.Canceled, or
-// context.DeadlineExceeded).
+// context.DeadlineExceeded), or the error of the gate that refused a point.
 func (j *Job) Wait() (*Result, error) {
 	<-j.done
 	j.mu.Lock()
