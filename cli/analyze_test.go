@@ -2,51 +2,33 @@ package cli
 
 import (
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
-	"pvcouple/internal/synthrec"
+	"gonum.org/v1/gonum/stat"
+
 	"pvcouple/model"
 	"pvcouple/presets"
 )
 
 // writeRecording writes a synthetic recording made by the model (normal
-// preset; steady beats, then a caval occlusion of our own when occlusion > 0)
-// and returns its path.
+// preset; steady beats, then a caval occlusion of our own when occlusion > 0;
+// seed 1) and returns its path.
 func writeRecording(t *testing.T, steady, occlusion int, header ...string) string {
 	t.Helper()
-	sc, err := presets.Get("normal")
-	if err != nil {
-		t.Fatal(err)
-	}
-	sr, err := synthrec.Make(synthrec.Spec{Params: sc.Params, SteadyBeats: steady, OcclusionBeats: occlusion, OcclusionStep: 0.88,
-		Rate: 1000, Seed: 1, NoiseP: 0.5, NoiseV: 0.5})
-	if err != nil {
-		t.Fatal(err)
-	}
+	spec := normalSpec(t)
+	spec.SteadyBeats, spec.OcclusionBeats = steady, occlusion
 	if len(header) == 0 {
 		header = []string{"time_s", "pressure_mmhg", "volume_ml"}
 	}
-	path := filepath.Join(t.TempDir(), "rec.csv")
-	f, err := os.Create(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	if err := sr.WriteCSV(f, header[0], header[1], header[2], ""); err != nil {
-		t.Fatal(err)
-	}
-	return path
+	return writeSpec(t, spec, [3]string(header), 1)
 }
 
 func TestAnalyzeJSON(t *testing.T) {
-	path := writeRecording(t, 8, 10)
-	code, out, errs := runCLI(t, "analyze", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out := runOK(t, "analyze", writeRecording(t, 8, 10), "--format", "json")
 	var doc struct {
 		Beats []map[string]any `json:"beats"`
 		ESPVR *struct {
@@ -58,10 +40,20 @@ func TestAnalyzeJSON(t *testing.T) {
 		} `json:"espvr"`
 		EDPVR      map[string]any `json:"edpvr"`
 		SingleBeat struct {
-			Chen  map[string]float64 `json:"chen_2001"`
-			Klotz map[string]any     `json:"klotz_2006"`
+			Chen  map[string]any `json:"chen_2001"`
+			Klotz map[string]any `json:"klotz_2006"`
 		} `json:"single_beat"`
-		V0Source string `json:"v0_source"`
+		PRSW *struct {
+			Mw float64 `json:"mw_mmhg"`
+			Vw float64 `json:"vw_ml"`
+			R2 float64 `json:"r2"`
+		} `json:"prsw"`
+		Runs []struct {
+			First int `json:"first_beat"`
+			Last  int `json:"last_beat"`
+		} `json:"runs"`
+		SteadyMedian map[string]any `json:"steady_median"`
+		V0Source     string         `json:"v0_source"`
 	}
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatalf("not JSON: %v", err)
@@ -69,8 +61,27 @@ func TestAnalyzeJSON(t *testing.T) {
 	if doc.ESPVR == nil || doc.ESPVR.Beats < 5 || doc.ESPVR.Method != "iterated-max-elastance-linear" || doc.V0Source != "espvr" {
 		t.Errorf("espvr %+v, v0 source %q", doc.ESPVR, doc.V0Source)
 	}
-	if doc.EDPVR == nil || doc.SingleBeat.Chen["ees_mmhg_per_ml"] <= 0 || doc.SingleBeat.Klotz["beta"] == nil {
+	if ees, _ := doc.SingleBeat.Chen["ees_mmhg_per_ml"].(float64); doc.EDPVR == nil || ees <= 0 || doc.SingleBeat.Klotz["beta"] == nil ||
+		doc.SingleBeat.Chen["basis"] == nil || doc.SingleBeat.Klotz["v0_basis"] == nil {
 		t.Errorf("edpvr %v, single beat %+v", doc.EDPVR, doc.SingleBeat)
+	}
+	if doc.SteadyMedian["ees_basis"] != basisMeasured {
+		t.Errorf("steady median Ees basis %v", doc.SteadyMedian["ees_basis"])
+	}
+	// PRSW (Glower 1985) from the output agrees within 2 % with our own fit
+	// of SW on EDV (gonum) to the run's beats as printed.
+	if len(doc.Runs) != 1 || doc.PRSW == nil {
+		t.Fatalf("runs %v, prsw %v", doc.Runs, doc.PRSW)
+	}
+	var edv, sw []float64
+	for _, b := range doc.Beats {
+		if n := int(b["beat"].(float64)); n >= doc.Runs[0].First && n <= doc.Runs[0].Last && b["kept"] == true {
+			edv, sw = append(edv, b["edv_ml"].(float64)), append(sw, b["sw_mmhg_ml"].(float64))
+		}
+	}
+	alpha, beta := stat.LinearRegression(edv, sw, nil, false)
+	if math.Abs(doc.PRSW.Mw/beta-1) > 0.02 || math.Abs(doc.PRSW.Vw/(-alpha/beta)-1) > 0.02 {
+		t.Errorf("prsw %+v; SW on EDV of the printed beats: Mw %.4g, Vw %.4g", doc.PRSW, beta, -alpha/beta)
 	}
 	if len(doc.Beats) < 17 {
 		t.Fatalf("%d beats", len(doc.Beats))
@@ -109,7 +120,8 @@ func TestAnalyzeTable(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	for _, want := range []string{"ESPVR (iterated-max-elastance-linear", "EDPVR", "Chen et al. 2001", "Klotz et al. 2006", "dropped: incomplete", "Warning: column \"Time (ms)\" is named in ms"} {
+	for _, want := range []string{"ESPVR (iterated-max-elastance-linear", "EDPVR", "PRSW", "dP/dt max–EDV", "Emax(t)", "Chen et al. 2001", "an estimate",
+		"Klotz et al. 2006", "dropped: incomplete", "kept, run 1", "EDV mL", "Warning: column \"Time (ms)\" is named in ms"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}
@@ -128,9 +140,15 @@ func TestAnalyzeBadInput(t *testing.T) {
 		{[]string{"analyze"}, 2, "needs a recording"},
 		{[]string{"analyze", "a.csv", "b.csv"}, 2, "one recording"},
 		{[]string{"analyze", filepath.Join(dir, "none.csv")}, 1, "no such file"},
-		{[]string{"analyze", bad}, 1, `bad.csv:2: column "volume_ml": "abc" is not a number`},
+		{[]string{"analyze", bad}, 1, `bad.csv:2:6: column "volume_ml": "abc" is not a number`},
 		{[]string{"analyze", bad, "--format", "xml"}, 2, "--format"},
-		{[]string{"analyze", bad, "--smooth-ms", "500"}, 2, "--smooth-ms"},
+		{[]string{"analyze", bad, "--smooth-ms", "5000"}, 2, "--smooth-ms"},
+		{[]string{"analyze", writeRecording(t, 8, 0), "--smooth-ms", "500"}, 2, "for this recording"},
+		{[]string{"analyze", bad, "--species", "cat"}, 2, "--species \"cat\": allowed human, pig, dog, sheep, rat, mouse"},
+		{[]string{"analyze", bad, "--alpha", "9"}, 2, "--alpha 9: allowed 0.1 to 5"},
+		{[]string{"analyze", bad, "--rate", "6000"}, 2, "--rate 6000: allowed 200 to 5000 Hz"},
+		{[]string{"analyze", bad, "--parallel-volume", "10", "--volume-offset", "5"}, 2, "not both"},
+		{[]string{"analyze", bad, "--calibration", "c.yaml", "--alpha", "1"}, 2, "not both"},
 		{[]string{"analyze", bad, "--espvr", "cubic"}, 2, "--espvr"},
 	} {
 		code, _, errs := runCLI(t, c.args...)

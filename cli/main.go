@@ -36,7 +36,7 @@ var commands []command
 
 // commandOrder is the order of the commands in the help text; commands not
 // named here follow in the order they registered.
-var commandOrder = []string{"explore", "solve", "loop", "protocol", "sweep", "analyze", "fit", "figure", "serve", "presets", "params"}
+var commandOrder = []string{"explore", "solve", "loop", "protocol", "sweep", "analyze", "fit", "calibrate", "figure", "serve", "presets", "params"}
 
 // register adds a subcommand; each command's file registers itself.
 func register(c command) {

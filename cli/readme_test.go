@@ -52,7 +52,7 @@ func TestReadmeExamplesRun(t *testing.T) {
 	if err := os.MkdirAll(recs, 0o755); err != nil {
 		t.Fatal(err)
 	}
-	for _, name := range []string{"occlusion-synthetic.csv", "steady-synthetic.csv"} {
+	for _, name := range []string{"occlusion-synthetic.csv", "steady-synthetic.csv", "saline-synthetic.csv", "mouse-synthetic.csv"} {
 		data, err := os.ReadFile(filepath.Join("..", "testdata", "recordings", name))
 		if err != nil {
 			t.Fatal(err)

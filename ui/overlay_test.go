@@ -157,3 +157,18 @@ func TestRecordingRepresentative(t *testing.T) {
 		t.Errorf("rec EDV %g and ESV %g outside the loop's volumes %g–%g", rec.rep.EDV, rec.rep.ESV, lo, hi)
 	}
 }
+
+// A small heart's recording (the synthetic mouse example) gives its ESPVR
+// on the legend line in µL, as analyze shows it.
+func TestRecordingSmallHeartInMicrolitres(t *testing.T) {
+	m := sized(t, "normal")
+	openRec(m, "../testdata/recordings/mouse-synthetic.csv")
+	rec := m.st.rec
+	if rec == nil || rec.ov.ESPVR == nil {
+		t.Fatalf("recording not overlaid; status %q", m.status)
+	}
+	want := "Ees " + fmtNum(rec.ov.ESPVR.Ees/1000, 2) + " mmHg/µL"
+	if screen := m.View(); !strings.Contains(screen, want) || !strings.Contains(screen, " µL") {
+		t.Errorf("screen lacks %q:\n%s", want, screen)
+	}
+}

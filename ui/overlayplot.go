@@ -80,8 +80,11 @@ func (v *pvView) recLine(rec *recording, w int) string {
 	}
 	fit, short := "no ESPVR fitted", "no ESPVR"
 	if es := rec.ov.ESPVR; es != nil {
-		fit = fmt.Sprintf("rec ESPVR Ees %s mmHg/mL, V0 %s mL", fmtNum(es.Ees, 2), fmtNum(es.V0, 1))
-		short = fmt.Sprintf("Ees %s, V0 %s", fmtNum(es.Ees, 2), fmtNum(es.V0, 1))
+		// A small heart's ESPVR in µL (the unit analysis picked for it).
+		u := rec.ov.Unit
+		ees, v0 := u.Value(es.Ees, -1), u.Value(es.V0, 1)
+		fit = fmt.Sprintf("rec ESPVR Ees %s %s, V0 %s %s", fmtNum(ees, 2), u.Label("mmHg/mL"), fmtNum(v0, 1), u.Label("mL"))
+		short = fmt.Sprintf("Ees %s, V0 %s", fmtNum(ees, 2), fmtNum(v0, 1))
 	}
 	others := ""
 	if rec.kept > 1 {

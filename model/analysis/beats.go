@@ -2,36 +2,33 @@ package analysis
 
 import (
 	"math"
-	"slices"
+	"reflect"
 
 	"pvcouple/model"
 )
 
 // Beat detection without an ECG (common practice, no source): each beat's
-// pressure upstroke is a peak of dP/dt (smoothed over at least detectWindow)
-// above upstrokeFrac of the recording's high dP/dt (its 99.5th percentile),
-// at least refractory apart.
+// pressure upstroke is a peak of dP/dt (from the timing filter) above upstrokeFrac of the recording's high dP/dt (its 99.5th
+// percentile), at least the refractory window apart.
 //
 // End-diastole is the later of two points before the upstroke: the onset of
 // contraction, the last sample where dP/dt is below onsetFrac of its peak;
 // and the start of the plateau of largest volume, the first sample of the
-// last run within a band of the largest volume, searched from at most
-// edSearch before the upstroke until dP/dt reaches edFrac of its peak
-// (isovolumic contraction is then well under way). The band is three noise
-// SDs of the volume passed to the measurements (at least 0.1 % of the volume)
-// so that noise cannot move end-diastole into isovolumic contraction. When
-// filling lasts into contraction (fast heart rates) the plateau starts at
-// mitral closure; otherwise the onset of contraction ends a flat diastasis.
-// On a clean model recording both give the model's own end-diastole within a
-// fraction of a mmHg.
+// last run within a band of the largest volume, searched from at most the
+// end-diastole window before the upstroke until dP/dt reaches edFrac of its
+// peak (isovolumic contraction is then well under way). The band is three
+// noise SDs of the timing smoother's volume (at least 0.1 % of the
+// volume) so that noise cannot move end-diastole into isovolumic
+// contraction. When filling lasts into contraction (fast heart rates) the
+// plateau starts at mitral closure; otherwise the onset of contraction ends
+// a flat diastasis. On a clean model recording both give the model's own
+// end-diastole within a fraction of a mmHg.
 const (
 	upstrokeFrac = 0.35
 	edFrac       = 0.50
 	onsetFrac    = 0.05
 	edBandSD     = 3
 	edBandMin    = 1e-3
-	refractory   = 0.25 // s: heart rates up to 240 bpm
-	edSearch     = 0.25 // s
 )
 
 // Beat is one beat of a recording, from one end-diastole to the next
@@ -41,38 +38,59 @@ type Beat struct {
 	Start    float64 // time of its first sample (end-diastole), s
 	End      float64 // time of its last sample (the next end-diastole), s
 	Upstroke float64 // time of its peak dP/dt, s; NaN for fragments
-	// Samples are the filtered samples of the beat, as passed to model.Measure.
-	Samples model.BeatSamples
 	// Metrics are its measurements; all NaN when Measured is false.
 	Metrics  model.Metrics
 	Measured bool
 	// Dropped says why the beat is left out of the fits and summaries; empty
 	// when it is kept.
 	Dropped string
-	// from, to index the beat's samples in the recording.
-	from, to int
+	// Ejection is the timing of ejection read from the outflow (see
+	// ejectionTiming); its Err says why it could not be found.
+	Ejection Ejection
+	// Run is the index in Analysis.Runs of the occlusion run the beat
+	// belongs to, −1 for none.
+	Run int
+
+	peakP    float64 // highest LV pressure, mmHg
+	minP     float64 // lowest LV pressure, mmHg
+	minV     float64 // smallest volume, mL
+	closeGap float64 // |V(end) − V(start)|, mL
+	from, to int     // the beat's samples in the recording
+	onset    int     // the sample of the onset of contraction (≤ from)
 	seg      *signals
 }
 
 // Kept reports whether the beat is used.
 func (b *Beat) Kept() bool { return b.Dropped == "" }
 
+// Samples returns the filtered samples of the beat, as passed to
+// model.Measure (filtered again at each call).
+func (b *Beat) Samples() model.BeatSamples {
+	return b.filtered().samples()
+}
+
+func (b *Beat) filtered() filtered {
+	s := b.seg
+	return s.window(b.from-s.seg.From, b.to-s.seg.From)
+}
+
 // findBeats cuts one filtered segment into beats. thr is the dP/dt threshold
 // of an upstroke, mmHg/s. Fragments at the ends of the segment are returned
 // as dropped beats without measurements.
-func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
+func findBeats(sig *signals, w *windows, thr float64, atStart, atEnd string) []*Beat {
 	d := sig.detect
 	n := len(d)
-	refr := int(math.Round(refractory / sig.dt))
-	back := int(math.Round(edSearch / sig.dt))
+	refr := int(math.Round(w.refractory / sig.dt))
+	back := int(math.Round(w.edSearch / sig.dt))
+	th := float32(thr)
 	var ups []int
 	for i := 0; i < n; {
-		if !(d[i] >= thr) {
+		if !(d[i] >= th) {
 			i++
 			continue
 		}
 		k := i
-		for ; i < n && d[i] >= thr; i++ {
+		for ; i < n && d[i] >= th; i++ {
 			if d[i] > d[k] {
 				k = i
 			}
@@ -87,6 +105,7 @@ func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
 	}
 	// End-diastole of each upstroke; −1 where none is found.
 	eds := make([]int, len(ups))
+	onsets := make([]int, len(ups))
 	v := sig.v
 	for j, k := range ups {
 		lim := max(0, k-back)
@@ -114,20 +133,34 @@ func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
 				top = i
 			}
 		}
-		band := math.Max(edBandSD*sig.noiseVOut, edBandMin*math.Abs(v[top]))
+		band := float32(math.Max(edBandSD*sig.noiseVT, edBandMin*math.Abs(float64(v[top]))))
 		i := top
 		for i > lim && v[i-1] >= v[top]-band {
 			i--
 		}
-		eds[j] = max(i, onset)
+		eds[j], onsets[j] = max(i, onset), onset
 	}
 	var beats []*Beat
+	g := sig.seg.From
+	newBeat := func(from, to int) *Beat {
+		return &Beat{Start: sig.time(from), End: sig.time(to - 1), Upstroke: math.NaN(), Metrics: nanMetrics(),
+			from: g + from, to: g + to, seg: sig, Run: -1, Ejection: noEjection("fragment")}
+	}
 	frag := func(from, to int, why string) {
 		if to-from < 2 {
 			return
 		}
-		beats = append(beats, &Beat{Start: sig.t[from], End: sig.t[to-1], Upstroke: math.NaN(), Dropped: why,
-			Metrics: nanMetrics(), from: sig.from + from, to: sig.from + to, seg: sig})
+		b := newBeat(from, to)
+		b.Dropped = why
+		beats = append(beats, b)
+	}
+	// A beat must start and end at least half a filter window inside the
+	// segment: nearer its ends the filters fit one-sided polynomials.
+	edge := max(sig.sm.Window, sig.ts.Window) / 2
+	for j := range eds {
+		if eds[j] >= 0 && (eds[j] < edge || eds[j] > n-1-edge) {
+			eds[j] = -1
+		}
 	}
 	first := -1
 	for j := range ups {
@@ -146,9 +179,10 @@ func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
 		if eds[j] < 0 {
 			continue // merged into the beat before: found as a long cycle
 		}
-		a, b := eds[prev], eds[j]
-		beats = append(beats, &Beat{Start: sig.t[a], End: sig.t[b], Upstroke: sig.t[ups[prev]],
-			from: sig.from + a, to: sig.from + b + 1, seg: sig, Metrics: nanMetrics()})
+		b := newBeat(eds[prev], eds[j]+1)
+		b.Upstroke = sig.time(ups[prev])
+		b.onset = g + onsets[prev]
+		beats = append(beats, b)
 		prev = j
 	}
 	frag(eds[prev], n, atEnd)
@@ -158,29 +192,30 @@ func findBeats(sig *signals, thr float64, atStart, atEnd string) []*Beat {
 // upstrokeThreshold is upstrokeFrac of the 99.5th percentile of dP/dt over
 // all segments.
 func upstrokeThreshold(segs []*signals) float64 {
-	var all []float64
+	n := 0
 	for _, s := range segs {
-		all = append(all, s.detect...)
+		n += len(s.detect)
 	}
-	slices.Sort(all)
-	return upstrokeFrac * all[int(0.995*float64(len(all)-1))]
-}
-
-// samples returns the beat's filtered samples for model.Measure.
-func (b *Beat) samples() model.BeatSamples {
-	s := b.seg
-	i, j := b.from-s.from, b.to-s.from
-	bs := model.BeatSamples{T: s.t[i:j], P: s.p[i:j], V: s.v[i:j], DPdt: s.dpdt[i:j], EDAtStart: true}
-	if s.pao != nil {
-		bs.Pao = s.pao[i:j]
+	at := func(i int) float64 {
+		for _, s := range segs {
+			if i < len(s.detect) {
+				return float64(s.detect[i])
+			}
+			i -= len(s.detect)
+		}
+		return nan
 	}
-	return bs
+	return upstrokeFrac * quantileOf(n, at, 0.995)
 }
 
 // nanMetrics is a Metrics with every value NaN.
 func nanMetrics() model.Metrics {
-	nan := math.NaN()
-	return model.Metrics{EDV: nan, ESV: nan, SV: nan, EF: nan, EDP: nan, ESP: nan, Ea: nan, Ees: nan, EaEes: nan,
-		EaRT: nan, EaSegers: nan, HR: nan, CO: nan, MAP: nan, SBP: nan, DBP: nan, SW: nan, PE: nan, PVA: nan,
-		Efficiency: nan, VO2: nan, VO2Per100g: nan, MechEff: nan, VMin: nan, DPdtMax: nan, DPdtMin: nan, Tau: nan, EDStress: nan, ESStress: nan, TED: nan, TES: nan}
+	var m model.Metrics
+	v := reflect.ValueOf(&m).Elem()
+	for i := 0; i < v.NumField(); i++ {
+		if f := v.Field(i); f.Kind() == reflect.Float64 && f.CanSet() {
+			f.SetFloat(nan)
+		}
+	}
+	return m
 }

@@ -32,7 +32,9 @@ const (
 )
 
 // Words of column names (lower case, split at anything but letters and
-// digits) that mark a column's role, site and unit. "µl" and "μl" read as "ul".
+// digits) that mark a column's role, site and unit. "µl" and "μl" (micro
+// sign or Greek mu) read as "ul", so volume_ul, "Volume [µL]" and "LVV (uL)"
+// all give µL.
 var (
 	timeWords     = wordSet("time t sec secs seconds timestamp elapsed")
 	pressureWords = wordSet("pressure p press pres lvp plv aop")
@@ -48,7 +50,10 @@ var (
 		"s": {roleTime, "s"}, "sec": {roleTime, "s"}, "secs": {roleTime, "s"}, "seconds": {roleTime, "s"},
 		"ms": {roleTime, "ms"}, "msec": {roleTime, "ms"},
 		"mmhg": {rolePressure, "mmhg"}, "kpa": {rolePressure, "kpa"},
+		"milliseconds": {roleTime, "ms"}, "millisecond": {roleTime, "ms"},
 		"ml": {roleVolume, "ml"}, "ul": {roleVolume, "ul"}, "mcl": {roleVolume, "ul"},
+		"microlitre": {roleVolume, "ul"}, "microliter": {roleVolume, "ul"}, "microlitres": {roleVolume, "ul"}, "microliters": {roleVolume, "ul"},
+		"millilitre": {roleVolume, "ml"}, "milliliter": {roleVolume, "ml"}, "millilitres": {roleVolume, "ml"}, "milliliters": {roleVolume, "ml"},
 	}
 )
 
@@ -130,7 +135,9 @@ type chosen struct {
 }
 
 // chooseColumns picks the columns from the header names and the options.
-func chooseColumns(names []string, o ReadOptions, ierr func(col, format string, a ...any) error) (chosen, error) {
+//
+// ierr makes an error at the header cell of column i (−1: the header line).
+func chooseColumns(names []string, o ReadOptions, ierr func(i int, format string, a ...any) error) (chosen, error) {
 	hs := make([]header, len(names))
 	for i, n := range names {
 		hs[i] = classify(n)
@@ -139,7 +146,7 @@ func chooseColumns(names []string, o ReadOptions, ierr func(col, format string, 
 		if want != "" {
 			i, err := findColumn(names, want)
 			if err != nil {
-				return -1, ierr("", "--%s %q: %v", flag, want, err)
+				return -1, ierr(-1, "--%s %s: %v", flag, quoteShort(want), err)
 			}
 			return i, nil
 		}
@@ -150,14 +157,14 @@ func chooseColumns(names []string, o ReadOptions, ierr func(col, format string, 
 			}
 		}
 		if len(found) > 1 {
-			return -1, ierr("", "%d columns could be the %s (%s): name the one to use with --%s",
+			return -1, ierr(found[1], "%d columns could be the %s (%s): name the one to use with --%s",
 				len(found), describe(r, pred), quoteCols(names, found), flag)
 		}
 		if len(found) == 1 {
 			return found[0], nil
 		}
 		if required {
-			return -1, ierr("", "no %s column found among %s; name it with --%s (looked for names such as %s)",
+			return -1, ierr(-1, "no %s column found among %s; name it with --%s (looked for names such as %s)",
 				describe(r, pred), quoteCols(names, nil), flag, examples(r))
 		}
 		return -1, nil
@@ -173,10 +180,10 @@ func chooseColumns(names []string, o ReadOptions, ierr func(col, format string, 
 		return c, err
 	}
 	if o.Rate > 0 && c.time >= 0 && o.TimeCol != "" {
-		return c, ierr("", "give --time-col or --rate, not both")
+		return c, ierr(-1, "give --time-col or --rate, not both")
 	}
 	if c.time < 0 && o.Rate == 0 {
-		return c, ierr("", "no time column; name it with --time-col or give the sampling rate with --rate")
+		return c, ierr(-1, "no time column; name it with --time-col or give the sampling rate with --rate")
 	}
 	// LV pressure and volume: a column marked LV wins; otherwise one with no site.
 	for _, x := range []struct {
@@ -214,7 +221,7 @@ func chooseColumns(names []string, o ReadOptions, ierr func(col, format string, 
 			continue
 		}
 		if prev, ok := used[u.i]; ok {
-			return c, ierr(names[u.i], "chosen as both the %s and the %s column", prev, u.what)
+			return c, ierr(u.i, "chosen as both the %s and the %s column", prev, u.what)
 		}
 		used[u.i] = u.what
 	}
@@ -227,7 +234,7 @@ func chooseColumns(names []string, o ReadOptions, ierr func(col, format string, 
 			continue
 		}
 		if h := hs[u.i]; h.unit != "" && h.unitRole != u.r {
-			return c, ierr(names[u.i], "used as the %s column but its name gives the unit %q, a unit of %s; check the columns and their names",
+			return c, ierr(u.i, "used as the %s column but its name gives the unit %q, a unit of %s; check the columns and their names",
 				u.r, h.unit, h.unitRole)
 		}
 	}

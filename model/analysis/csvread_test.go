@@ -70,15 +70,15 @@ func TestReadCSVHeaderVariants(t *testing.T) {
 		if rec.Columns.Pressure != c.wantP || rec.Columns.Volume != c.wantV {
 			t.Errorf("%s: read %q and %q", c.name, rec.Columns.Pressure, rec.Columns.Volume)
 		}
-		if math.Abs(rec.Rate-1000) > 1e-6 || len(rec.T) != 2000 {
-			t.Errorf("%s: rate %g, %d samples", c.name, rec.Rate, len(rec.T))
+		if math.Abs(rec.Rate-1000) > 1e-6 || rec.Len() != 2000 {
+			t.Errorf("%s: rate %g, %d samples", c.name, rec.Rate, rec.Len())
 		}
 		// Sample 100: t 0.1 s.
 		ph := 2 * math.Pi * 0.1 / 0.8
-		if math.Abs(rec.T[100]-0.1) > 1e-9 || math.Abs(rec.P[100]-(60-55*math.Cos(ph))) > 1e-4 || math.Abs(rec.V[100]-(90+40*math.Sin(ph))) > 1e-6 {
-			t.Errorf("%s: sample 100 = %g s, %g mmHg, %g mL", c.name, rec.T[100], rec.P[100], rec.V[100])
+		if math.Abs(rec.Time(100)-0.1) > 1e-9 || math.Abs(rec.Pressure(100)-(60-55*math.Cos(ph))) > 1e-4 || math.Abs(rec.Volume(100)-(90+40*math.Sin(ph))) > 1e-6 {
+			t.Errorf("%s: sample 100 = %g s, %g mmHg, %g mL", c.name, rec.Time(100), rec.Pressure(100), rec.Volume(100))
 		}
-		if c.name == "our loop output" && rec.Pao == nil {
+		if c.name == "our loop output" && !rec.HasAortic() {
 			t.Errorf("%s: aortic column not found", c.name)
 		}
 	}
@@ -102,22 +102,102 @@ func TestReadCSVRefusesBadFiles(t *testing.T) {
 		{"text in a cell", strings.Replace(good, "\n0.5,", "\n0.5x,", 1), ReadOptions{}, `"0.5x" is not a number`},
 		{"time backwards", strings.Join(append(append([]string{}, lines[:50]...), append([]string{lines[48]}, lines[50:]...)...), "\n"), ReadOptions{}, "times must increase"},
 		{"time in ms read as s", pvRows("time,pressure_mmhg,volume_ml", 2000, 1000, 1e3, 1, 1, ","), ReadOptions{}, "look like milliseconds"},
-		{"rate too low", pvRows("time_s,pressure_mmhg,volume_ml", 200, 100, 1, 1, 1, ","), ReadOptions{}, "outside 200 to 2000 Hz"},
+		{"rate too low", pvRows("time_s,pressure_mmhg,volume_ml", 200, 100, 1, 1, 1, ","), ReadOptions{}, "outside 200 to 5000 Hz"},
 		{"volume in pressure column", swapped, ReadOptions{}, "never fall below"},
 		{"unit of another quantity", strings.Replace(good, "volume_ml", "volume_mmhg", 1), ReadOptions{}, "a unit of pressure"},
 		{"microlitres as mL", pvRows("time_s,pressure_mmhg,volume", 2000, 1000, 1, 1, 1e3, ","), ReadOptions{}, "--volume-unit ul"},
 		{"kPa as mmHg", pvRows("time_s,pressure,volume_ml", 2000, 1000, 1, 1/7.50062, 1, ","), ReadOptions{}, "--pressure-unit kpa"},
 		{"unknown column flag", good, ReadOptions{PressureCol: "LVP"}, "no such column"},
 		{"same column twice", good, ReadOptions{PressureCol: "volume_ml"}, "both the"},
-		{"bad unit flag", good, ReadOptions{TimeUnit: "min"}, "--time-unit"},
 		{"too short", pvRows("time_s,pressure_mmhg,volume_ml", 500, 1000, 1, 1, 1, ","), ReadOptions{}, "at least 1 s"},
 		{"short row", good + "3.1,5\n", ReadOptions{}, "2 fields"},
+		{"UTF-16 with mark", "\xff\xfe" + utf16le(good[:200]), ReadOptions{}, "UTF-16"},
+		{"UTF-16 without mark", utf16le(good[:200]), ReadOptions{}, "UTF-16"},
+		{"CR line ends", strings.ReplaceAll(good, "\n", "\r"), ReadOptions{}, "CR alone"},
+		{"unterminated quote", strings.Replace(good, "\n0.5,", "\n\"0.5,", 1), ReadOptions{}, "not closed on this line"},
+		{"text after quote", strings.Replace(good, "\n0.5,", "\n\"0.5\"x,", 1), ReadOptions{}, "after the closing quote"},
+		{"control character in a name", strings.Replace(good, "pressure_mmhg", "press\x1b]0;x\x07", 1), ReadOptions{}, "control character U+001B"},
+		{"NUL byte", strings.Replace(good, "\n0.5,", "\n0.5\x00,", 1), ReadOptions{}, "NUL byte"},
+		{"endless line", strings.Repeat("a", 70000), ReadOptions{}, "longer than 64 KiB"},
+		{"only comments", strings.Repeat("# note\n", 10002), ReadOptions{}, "no header line"},
 	}
 	for _, c := range cases {
 		_, err := ReadCSV(strings.NewReader(c.data), "rec.csv", c.o)
 		var ie *InputError
 		if err == nil || !errors.As(err, &ie) || !strings.Contains(err.Error(), c.want) || !strings.HasPrefix(err.Error(), "rec.csv") {
 			t.Errorf("%s: got %v, want an InputError mentioning %q", c.name, err, c.want)
+		}
+	}
+}
+
+// utf16le encodes ASCII text as UTF-16 little-endian.
+func utf16le(s string) string {
+	var b strings.Builder
+	for i := 0; i < len(s); i++ {
+		b.WriteByte(s[i])
+		b.WriteByte(0)
+	}
+	return b.String()
+}
+
+// Each refusal names the file, line and column; some rows check the place.
+func TestReadCSVRefusalsNamePlace(t *testing.T) {
+	good := pvRows("time_s,pressure_mmhg,volume_ml", 2000, 1000, 1, 1, 1, ",")
+	for _, c := range []struct {
+		name, data string
+		line, col  int
+	}{
+		{"text in a cell", strings.Replace(good, "\n0.5,", "\n0.5x,", 1), 502, 1},
+		{"text in the second cell", strings.Replace(good, "\n0.5,", "\n0.5,abc", 1), 502, 5},
+		{"control character", strings.Replace(good, "volume_ml", "vol\x7fume", 1), 1, 25},
+		{"unterminated quote", strings.Replace(good, "\n0.5,", "\n0.5,\"", 1), 502, 5},
+		{"rate", pvRows("time_s,pressure_mmhg,volume_ml", 200, 100, 1, 1, 1, ","), 1, 1},
+		{"not a pressure", pvRows("time_s,volume_ml,pressure_mmhg", 2000, 1000, 1, 1, 1, ","), 1, 18},
+	} {
+		_, err := ReadCSV(strings.NewReader(c.data), "rec.csv", ReadOptions{})
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Line != c.line || ie.Col != c.col || !strings.HasPrefix(err.Error(), fmt.Sprintf("rec.csv:%d:%d: ", c.line, c.col)) {
+			t.Errorf("%s: got %v, want rec.csv:%d:%d", c.name, err, c.line, c.col)
+		}
+	}
+}
+
+// The stated range of sampling rates is the range checked: 200 and 5000 Hz
+// are read, 199 and 5001 Hz refused.
+func TestReadCSVRateBounds(t *testing.T) {
+	for _, c := range []struct {
+		rate float64
+		ok   bool
+	}{{199, false}, {200, true}, {5000, true}, {5001, false}} {
+		data := pvRows("time_s,pressure_mmhg,volume_ml", int(2*c.rate), c.rate, 1, 1, 1, ",")
+		rec, err := ReadCSV(strings.NewReader(data), "r.csv", ReadOptions{})
+		if c.ok && (err != nil || rec.Rate != c.rate) {
+			t.Errorf("%g Hz: %v", c.rate, err)
+		}
+		if !c.ok && (err == nil || !strings.Contains(err.Error(), "outside 200 to 5000 Hz")) {
+			t.Errorf("%g Hz accepted or misreported: %v", c.rate, err)
+		}
+	}
+	if _, err := ReadCSV(strings.NewReader("t,p,v\n"), "r.csv", ReadOptions{TimeUnit: "min"}); err == nil || !strings.Contains(err.Error(), "--time-unit") {
+		t.Errorf("bad --time-unit: %v", err)
+	}
+	if err := (ReadOptions{Rate: 5001}).Check(); err == nil || !strings.Contains(err.Error(), "200 to 5000 Hz") {
+		t.Errorf("--rate 5001: %v", err)
+	}
+}
+
+// Volume headers in µL are read as µL: volume_ul, [µL] (micro sign and
+// Greek mu), (uL), and the Latin-1 byte B5 for µ.
+func TestReadCSVMicrolitreHeaders(t *testing.T) {
+	for _, h := range []string{"volume_ul", "LV Volume [µL]", "LV Volume [μL]", "LVV (uL)", "Volume [\xb5l]"} {
+		data := pvRows("time_s,pressure_mmhg,"+h, 2000, 1000, 1, 1, 1e3, ",")
+		rec, err := ReadCSV(strings.NewReader(data), "u.csv", ReadOptions{})
+		if err != nil {
+			t.Errorf("%q: %v", h, err)
+			continue
+		}
+		if rec.Columns.VolumeUnit != "ul" || math.Abs(rec.Volume(100)-(90+40*math.Sin(2*math.Pi*0.1/0.8))) > 1e-4 {
+			t.Errorf("%q: unit %q, V(100) %g mL", h, rec.Columns.VolumeUnit, rec.Volume(100))
 		}
 	}
 }
@@ -130,8 +210,8 @@ func TestReadCSVOptions(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(rec.V[0]-80) > 1e-9 {
-		t.Errorf("offset not subtracted: V[0] = %g", rec.V[0])
+	if math.Abs(rec.Volume(0)-80) > 1e-9 {
+		t.Errorf("offset not subtracted: V[0] = %g", rec.Volume(0))
 	}
 	var noTime strings.Builder
 	for i, line := range strings.Split(strings.TrimSpace(pvRows("t,pressure,volume", 2000, 500, 1, 1, 1, ",")), "\n") {
@@ -143,8 +223,8 @@ func TestReadCSVOptions(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(rec.Rate-500) > 1e-6 || math.Abs(rec.T[10]-0.02) > 1e-12 || rec.Columns.Time != "" {
-		t.Errorf("rate %g, T[10] %g", rec.Rate, rec.T[10])
+	if math.Abs(rec.Rate-500) > 1e-6 || math.Abs(rec.Time(10)-0.02) > 1e-12 || rec.Columns.Time != "" {
+		t.Errorf("rate %g, T[10] %g", rec.Rate, rec.Time(10))
 	}
 	// The header says ms, the flag says s: the flag wins, with a warning.
 	rec, err = ReadCSV(strings.NewReader(pvRows("time_ms,pressure,volume", 2000, 1000, 1, 1, 1, ",")), "x.csv", ReadOptions{TimeUnit: "s"})
@@ -198,8 +278,8 @@ func TestReadCSVGapsAndJitter(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for i := 1; i < len(rec.T); i++ {
-		if d := rec.T[i] - rec.T[i-1]; math.Abs(d-rec.T[1]+rec.T[0]) > 1e-12 {
+	for i := 1; i < rec.Len(); i++ {
+		if d := rec.Time(i) - rec.Time(i-1); math.Abs(d-rec.Time(1)+rec.Time(0)) > 1e-12 {
 			t.Fatalf("not uniform after resampling at %d: %g", i, d)
 		}
 	}

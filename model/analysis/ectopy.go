@@ -18,11 +18,13 @@ const (
 	longCycleFrac  = 1.50 // cycle longer than this multiple of the usual period
 	weakFrac       = 0.60 // peak pressure below this fraction of the neighbours'
 	openLoopFrac   = 0.35 // end-diastolic volumes of the two ends differ by more than this fraction of SV
-	minEjectionFrc = 0.02 // SV below this fraction of EDV (and 1 mL) is no ejection
+	minEjectionFrc = 0.02 // SV below this fraction of EDV (or 3 volume noise SDs) is no ejection
+	minEjectionSD  = 3
 )
 
-// classify sets Dropped on the measured beats of one segment that break a rule.
-func classifyBeats(beats []*Beat) {
+// classifyBeats sets Dropped on the measured beats of one segment that break
+// a rule; sd is the noise SD of the volume as measured, mL.
+func classifyBeats(beats []*Beat, sd float64) {
 	var idx []int // complete beats, in order
 	for i, b := range beats {
 		if !math.IsNaN(b.Upstroke) {
@@ -60,7 +62,7 @@ func classifyBeats(beats []*Beat) {
 		periods[k] = period(k)
 		peaks[k] = math.NaN()
 		if beats[i].Measured {
-			peaks[k] = slices.Max(beats[i].Samples.P)
+			peaks[k] = beats[i].peakP
 		}
 	}
 	for k, i := range idx {
@@ -75,14 +77,13 @@ func classifyBeats(beats []*Beat) {
 		if m.SW <= 0 {
 			drop(i, "loop runs clockwise in the pressure–volume plane")
 		}
-		if m.SV < math.Max(1, minEjectionFrc*m.EDV) {
-			drop(i, "no ejection (SV %.3g mL)", m.SV)
+		if m.SV < math.Max(minEjectionSD*sd, minEjectionFrc*m.EDV) {
+			drop(i, "no ejection (SV %.3g mL, EDV %.3g mL)", m.SV, m.EDV)
 		}
 		if usual := neighbourMedian(peaks, k); peaks[k] < weakFrac*usual {
 			drop(i, "weak beat: pressure peaks at %.0f mmHg (neighbours %.0f mmHg)", peaks[k], usual)
 		}
-		v := b.Samples.V
-		if d := math.Abs(v[len(v)-1] - v[0]); d > openLoopFrac*m.SV {
+		if d := b.closeGap; d > openLoopFrac*m.SV {
 			drop(i, "loop does not close: its end-diastolic volumes differ by %.3g mL (SV %.3g mL)", d, m.SV)
 		}
 	}

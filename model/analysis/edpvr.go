@@ -21,10 +21,15 @@ type EDPVRFit struct {
 	Beats int     // end-diastolic points used
 }
 
+// minEDPVRSpan: 4 % is about 5 mL of a human ventricle filled 120 mL above V0
+// (common practice, no source).
+const minEDPVRSpan = 0.04
+
 // FitEDPVR fits P = A·(exp(B·(V − v0)) − 1) to end-diastolic points by least
 // squares (docs/science.md §1 for the form, §6 for the method). For a given B the
 // best A is linear; B is found by Nelder–Mead on ln B. It needs at least
-// MinESPVRBeats points spread over at least 5 mL.
+// MinESPVRBeats points spread over at least minEDPVRSpan of the largest
+// volume above V0.
 func FitEDPVR(points []Point, v0 float64) (EDPVRFit, error) {
 	if len(points) < MinESPVRBeats {
 		return EDPVRFit{}, fmt.Errorf("an EDPVR needs at least %d end-diastolic points, got %d", MinESPVRBeats, len(points))
@@ -33,11 +38,14 @@ func FitEDPVR(points []Point, v0 float64) (EDPVRFit, error) {
 	for _, p := range points {
 		lo, hi = math.Min(lo, p.V), math.Max(hi, p.V)
 	}
-	if hi-lo < 5 {
-		return EDPVRFit{}, fmt.Errorf("end-diastolic volumes span only %.3g mL; an EDPVR needs at least 5 mL", hi-lo)
-	}
 	if lo-v0 <= 0 {
 		return EDPVRFit{}, fmt.Errorf("end-diastolic volumes reach down to %.3g mL, not above V0 = %.3g mL", lo, v0)
+	}
+	// The stiffness is searched as b = B·(largest EDV − V0), which does not
+	// depend on the size of the heart.
+	scale := hi - v0
+	if hi-lo < minEDPVRSpan*scale {
+		return EDPVRFit{}, fmt.Errorf("end-diastolic volumes span only %.3g mL; an EDPVR needs at least %.0f %% of %.3g mL", hi-lo, minEDPVRSpan*100, scale)
 	}
 	// bestA returns the least-squares A for B and the sum of squares.
 	bestA := func(b float64) (a, ss float64) {
@@ -55,16 +63,15 @@ func FitEDPVR(points []Point, v0 float64) (EDPVRFit, error) {
 		return a, ss
 	}
 	prob := optimize.Problem{Func: func(x []float64) float64 {
-		if x[0] < math.Log(1e-4) || x[0] > 0 {
+		if x[0] < math.Log(1e-2) || x[0] > math.Log(100) {
 			return math.Inf(1)
 		}
-		_, ss := bestA(math.Exp(x[0]))
+		_, ss := bestA(math.Exp(x[0]) / scale)
 		return ss
 	}}
-	// Start from the B whose curve through the two ends has the right ratio,
-	// falling back to 0.03/mL; a coarse scan guards against a poor start.
-	start, bestSS := math.Log(0.03), math.Inf(1)
-	for lb := math.Log(2e-4); lb < 0; lb += 0.25 {
+	// A coarse scan of b finds the start.
+	start, bestSS := math.Log(3), math.Inf(1)
+	for lb := math.Log(1.1e-2); lb < math.Log(100); lb += 0.25 {
 		if ss := prob.Func([]float64{lb}); ss < bestSS {
 			start, bestSS = lb, ss
 		}
@@ -73,7 +80,7 @@ func FitEDPVR(points []Point, v0 float64) (EDPVRFit, error) {
 	if err != nil && res == nil {
 		return EDPVRFit{}, fmt.Errorf("EDPVR fit: %w", err)
 	}
-	b := math.Exp(res.X[0])
+	b := math.Exp(res.X[0]) / scale
 	a, ss := bestA(b)
 	if !(a > 0) {
 		return EDPVRFit{}, errors.New("end-diastolic pressure does not rise with volume")

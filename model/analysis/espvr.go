@@ -30,14 +30,18 @@ type ESPVRFit struct {
 	Points     []Point // end-systolic points of the last iteration
 }
 
+// maxElastanceFloor: see maxElastancePoint.
+const maxElastanceFloor = 0.02
+
 // MinESPVRBeats is the fewest loops an ESPVR is fitted to.
 const MinESPVRBeats = 5
 
-// MinESPVRSpan is the least spread of the end-systolic volumes, mL, that an
-// ESPVR is fitted to: a line through points bunched closer than this follows
-// noise, not the ESPVR (common practice, no source; an occlusion moves ESV by
-// tens of mL).
-const MinESPVRSpan = 1.0
+// MinESPVRSpan is the least spread of the end-systolic volumes that an ESPVR
+// is fitted to, as a fraction of the largest of them above V0: a line through
+// points bunched closer than this follows noise, not the ESPVR (common
+// practice, no source; an occlusion moves ESV by a fifth or more). 2 % is
+// 1 mL for a human ventricle ending systole at 50 mL.
+const MinESPVRSpan = 0.02
 
 // FitESPVR fits P = Ees·(V − V0) to the end-systolic points of the loops by the
 // iterated maximal-elastance method (docs/science.md §6): guess V0, take each loop's
@@ -79,8 +83,8 @@ func iterateESPVR(beats []model.BeatSamples, v0Guess float64, method string,
 			}
 			vs[i], ps[i] = p.V, p.P
 		}
-		if lo, hi := floats.Min(vs), floats.Max(vs); !(hi-lo >= MinESPVRSpan) {
-			return ESPVRFit{}, fmt.Errorf("end-systolic volumes span only %.2g mL (need %g mL): preload did not change enough", hi-lo, MinESPVRSpan)
+		if lo, hi := floats.Min(vs), floats.Max(vs); !(hi-lo >= MinESPVRSpan*(hi-v0)) {
+			return ESPVRFit{}, fmt.Errorf("preload did not change enough: end-systolic volumes span only %.2g mL (need %.0f %% of %.3g mL)", hi-lo, MinESPVRSpan*100, hi-v0)
 		}
 		next, err := relate(vs, ps, &fit)
 		if err != nil {
@@ -100,11 +104,14 @@ func iterateESPVR(beats []model.BeatSamples, v0Guess float64, method string,
 }
 
 // maxElastancePoint is the sample of a loop with maximal P/(V − v0), among
-// samples more than 1 mL above v0.
+// samples more than maxElastanceFloor of the loop's largest volume above v0
+// (so that a near-empty ventricle cannot give a spurious maximum; model.Measure
+// has the same guard).
 func maxElastancePoint(b model.BeatSamples, v0 float64) (Point, error) {
 	best, idx := math.Inf(-1), -1
+	floor := maxElastanceFloor * (floats.Max(b.V) - v0)
 	for i := range b.V {
-		if x := b.V[i] - v0; x > 1 {
+		if x := b.V[i] - v0; x > floor {
 			if r := b.P[i] / x; r > best {
 				best, idx = r, i
 			}

@@ -85,7 +85,8 @@ const penalty = 1e9
 // steady state. The search starts from the recording's own measures: the
 // ESPVR if the recording has one (else Ees = ESP/ESV, V0 = 0), the EDPVR fit
 // if any (else a curve with the slope of the Klotz et al. 2006 estimate at
-// EDV), R from Ea·T (Sunagawa et al. 1983), C from the diastolic decay of
+// EDV), R from the mean pressure over the output (else from Ea·T, Sunagawa
+// et al. 1983), C from the diastolic decay of
 // pressure, filling pressure from EDP.
 //
 // Each parameter's determinacy comes from the curvature of the cost at the
@@ -129,7 +130,10 @@ func FitModel(a *Analysis, o FitOptions) (*FitResult, error) {
 		return nil, err
 	}
 
+	// One loop is fitted by the ventricle and its load alone, in the held
+	// circulation, whose filling pressure is a lever of the fit.
 	base := o.Base
+	base.Circulation, base.StressedVolume = model.Held, 0
 	base.HeartRate = hr
 	x0 := encode(fitStart(a, base))
 	solver := model.NewSolver()
@@ -288,10 +292,16 @@ func fitStart(a *Analysis, base model.Params) model.Params {
 	}
 	ea := esp / sv
 	p.Resistance = ea*period - p.Zc
-	// Arterial pressure decays from ESP at aortic closure (≈ end-systole) to
-	// the diastolic pressure at the next opening: τ = R·C = t_d / ln(Pes/Pd).
 	if sb := a.SingleBeat; sb != nil && sb.Pd > 0 && sb.Pd < esp {
-		td := period - tes + sb.TNd*tes
+		// Mean arterial pressure ≈ DBP + (SBP − DBP)/3 (common practice, from
+		// memory) over the output gives the total resistance.
+		mean := sb.Pd + (sb.Ps-sb.Pd)/3
+		if r := (mean - p.VenousPressure) / (sv / period); r > p.Zc {
+			p.Resistance = r - p.Zc
+		}
+		// Arterial pressure decays from ESP at aortic closure (≈ end-systole)
+		// to the diastolic pressure at the next opening: τ = R·C = t_d / ln(Pes/Pd).
+		td := period - tes + sb.TOpen
 		p.Compliance = td / math.Log(esp/sb.Pd) / (p.Resistance + p.Zc)
 	}
 	for _, k := range FitKeys {

@@ -14,7 +14,10 @@ import (
 // Ees, filling pressure) come back within 10 % of the values set, and the
 // determinacy ranks them above those a single loop barely constrains (the
 // EDPVR scale A; common practice, no source: one loop shows one point of
-// the EDPVR).
+// the EDPVR). On the failing ventricle (hfref) one loop trades Ees against
+// V0 (a steeper line through a larger V0 meets the same end-systolic point),
+// and the venous pressure, not fitted, is the normal preset's 5 mmHg against
+// its 8: there R is held to 20 % and Ees is not claimed.
 func TestFitModelOnModelRecording(t *testing.T) {
 	for _, name := range []string{"normal", "hfref"} {
 		spec := occlusion(presetParams(t, name))
@@ -45,9 +48,14 @@ func TestFitModelOnModelRecording(t *testing.T) {
 		for _, f := range r.Fitted {
 			byKey[f.Key] = f
 		}
+		tol := map[string]float64{"resistance_mmhg_s_per_ml": 0.1, "ees_mmhg_per_ml": 0.1, "filling_pressure_mmhg": 0.1}
+		if name == "hfref" {
+			tol["resistance_mmhg_s_per_ml"] = 0.2
+			delete(tol, "ees_mmhg_per_ml")
+		}
 		for _, k := range []string{"resistance_mmhg_s_per_ml", "ees_mmhg_per_ml", "filling_pressure_mmhg"} {
 			s, _ := model.SpecByKey(k)
-			if got, want := byKey[k].Value, s.Get(truth); math.Abs(got/want-1) > 0.1 {
+			if got, want := byKey[k].Value, s.Get(truth); tol[k] > 0 && math.Abs(got/want-1) > tol[k] {
 				t.Errorf("%s: %s fitted %.4g, set %.4g", name, k, got, want)
 			}
 		}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/interp"
 
 	"pvcouple/model"
@@ -35,30 +36,27 @@ const (
 func meanLoop(beats []*Beat, period float64) (*Loop, int, error) {
 	l := newLoop(period)
 	used := 0
-	type fitted struct{ p, v interp.PiecewiseLinear }
-	segs := map[*signals]*fitted{}
 	for _, b := range beats {
 		s := b.seg
-		i0, i1 := b.from-s.from, b.to-s.from
-		ta := peakTime(s.t[i0:i1], s.dpdt[i0:i1])
+		f := b.filtered()
+		ta := peakTime(f.T, f.DPdt)
 		start := ta - phaseLead*period
-		if start < s.t[0] || start+period > s.t[len(s.t)-1] {
+		i0 := int(math.Floor((start-s.seg.Start)/s.dt)) - 1
+		i1 := int(math.Ceil((start+period-s.seg.Start)/s.dt)) + 2
+		if i0 < 0 || i1 > s.n {
 			continue
 		}
-		f := segs[s]
-		if f == nil {
-			f = &fitted{}
-			if err := f.p.Fit(s.t, s.p); err != nil {
-				return nil, 0, err
-			}
-			if err := f.v.Fit(s.t, s.v); err != nil {
-				return nil, 0, err
-			}
-			segs[s] = f
+		w := s.window(i0, i1)
+		var fp, fv interp.PiecewiseLinear
+		if err := fp.Fit(w.T, w.P); err != nil {
+			return nil, 0, err
+		}
+		if err := fv.Fit(w.T, w.V); err != nil {
+			return nil, 0, err
 		}
 		for m, tau := range l.T {
-			l.P[m] += f.p.Predict(start + tau)
-			l.V[m] += f.v.Predict(start + tau)
+			l.P[m] += fp.Predict(start + tau)
+			l.V[m] += fv.Predict(start + tau)
 		}
 		used++
 	}
@@ -70,6 +68,11 @@ func meanLoop(beats []*Beat, period float64) (*Loop, int, error) {
 		l.V[m] /= float64(used)
 	}
 	return l, used, nil
+}
+
+// rmsDiff is the root-mean-square difference of two equally long series.
+func rmsDiff(a, b []float64) float64 {
+	return floats.Distance(a, b, 2) / math.Sqrt(float64(len(a)))
 }
 
 func newLoop(period float64) *Loop {

@@ -44,3 +44,19 @@ func makeRecording(tb testing.TB, spec synthrec.Spec, o ReadOptions) (*synthrec.
 	}
 	return sr, rec
 }
+
+// analysedSteady is a steady synthetic recording of a preset (the occlusion
+// spec without its occlusion; noise SD in mmHg and mL, and its seed), read
+// and analysed with the default options.
+func analysedSteady(tb testing.TB, preset string, noise float64, seed uint64) (*synthrec.Recording, *Recording, *Analysis) {
+	tb.Helper()
+	spec := occlusion(presetParams(tb, preset))
+	spec.OcclusionBeats, spec.RecoveryBeats = 0, 0
+	spec.NoiseP, spec.NoiseV, spec.Seed = noise, noise, seed
+	sr, rec := makeRecording(tb, spec, ReadOptions{})
+	a, err := Analyze(rec, Options{})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return sr, rec, a
+}

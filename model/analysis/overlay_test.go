@@ -2,7 +2,6 @@ package analysis
 
 import (
 	"math"
-	"os"
 	"path/filepath"
 	"testing"
 
@@ -19,14 +18,9 @@ func TestOverlay(t *testing.T) {
 		t.Fatal(err)
 	}
 	path := filepath.Join(t.TempDir(), "rec.csv")
-	f, err := os.Create(path)
-	if err != nil {
+	if err := sr.WriteFile(path, "time_s", "pressure_mmhg", "volume_ml", 1); err != nil {
 		t.Fatal(err)
 	}
-	if err := sr.WriteCSV(f, "time_s", "pressure_mmhg", "volume_ml", ""); err != nil {
-		t.Fatal(err)
-	}
-	f.Close()
 	a, err := Open(path, ReadOptions{}, Options{})
 	if err != nil {
 		t.Fatal(err)

@@ -4,38 +4,44 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // Thresholds of the data-quality warnings (common practice, no source).
 const (
 	noisyP      = 3    // mmHg SD
 	noisyVFrac  = 0.05 // SD as a fraction of SV
-	driftP      = 2    // mmHg of baseline change across the steady beats
-	driftVFrac  = 0.03 // volume change across the steady beats, fraction of EDV
+	driftP      = 2    // mmHg of EDP change across the steady beats
+	driftVFrac  = 0.03 // EDV change across the steady beats, fraction of EDV
 	driftEes    = 0.02 // drift that would move the ESPVR slope by this fraction
-	driftSpan   = 3    // s: shorter steady stretches are not judged for drift
+	driftSpan   = 3    // s: shorter steady time is not judged for drift
 	minDriftBts = 4    // steady beats needed to judge drift
-	driftSig    = 2.5  // a trend counts when its slope exceeds this many standard errors
+	driftLevel  = 0.01 // a trend counts when a two-sided t-test rejects no trend at this level
 )
 
-// noise combines the segments' noise estimates.
-func (a *Analysis) noise(sigs []*signals) {
-	var sp, sv, n float64
-	for _, s := range sigs {
-		w := float64(s.noiseCount)
-		sp += w * s.noiseP * s.noiseP
-		sv += w * s.noiseV * s.noiseV
-		n += w
-	}
-	a.NoiseP, a.NoiseV = math.Sqrt(sp/n), math.Sqrt(sv/n)
+// Drift is the baseline drift of a recording, measured on its steady
+// segments only: the beat-to-beat trend of EDV and EDP against time, pooled
+// within segments (each segment's own mean removed, one common slope), so
+// that the jumps between steady states before and after an occlusion or a
+// drug are not taken for drift.
+type Drift struct {
+	Beats    int     // steady beats
+	Span     float64 // s of steady beats (the segments' spans summed)
+	EDV, EDP Trend
+}
+
+// Trend is a least-squares slope with its standard error.
+type Trend struct {
+	Slope       float64 // per second
+	SE          float64
+	Significant bool // the t-test of no trend fails at driftLevel
 }
 
 // checkQuality warns of noise, baseline drift and volume offsets the
 // measurements carry.
 func (a *Analysis) checkQuality() {
-	kept := a.Kept()
 	var sv []float64
-	for _, b := range kept {
+	for _, b := range a.Kept() {
 		if b.Measured {
 			sv = append(sv, b.Metrics.SV)
 		}
@@ -51,13 +57,17 @@ func (a *Analysis) checkQuality() {
 	}
 	a.checkDrift()
 	// A volume offset shows as V0 far from the usual range or ESV below V0.
-	if e := a.ESPVR; e != nil {
-		if e.V0 < -50 {
-			a.warnf("the ESPVR's V0 is %.3g mL: volumes probably carry a negative offset (parallel conductance over-corrected?)", e.V0)
+	for _, run := range a.Runs {
+		e := run.ESPVR
+		if e == nil {
+			continue
+		}
+		if e.V0 < -0.3*run.Beats[0].Metrics.EDV {
+			a.warnf("the ESPVR of beats %d–%d has V0 %.3g mL: volumes probably carry a negative offset (parallel volume over-corrected?)", run.First(), run.Last(), e.V0)
 		}
 		for _, p := range e.Points {
 			if p.V < e.V0 {
-				a.warnf("an end-systolic volume lies below the ESPVR's V0: the fit is doubtful")
+				a.warnf("an end-systolic volume of beats %d–%d lies below the ESPVR's V0: the fit is doubtful", run.First(), run.Last())
 				break
 			}
 		}
@@ -67,75 +77,107 @@ func (a *Analysis) checkQuality() {
 	}
 }
 
-func minOf(x []float64) float64 {
-	m := math.Inf(1)
-	for _, v := range x {
-		m = math.Min(m, v)
+// measureDrift pools the steady segments' trends of EDV and EDP; nil when
+// there are too few steady beats or too little time.
+func (a *Analysis) measureDrift() *Drift {
+	var tc, vc, pc []float64
+	d := &Drift{}
+	segs := 0
+	for _, seg := range a.SteadySegments {
+		if len(seg) < 2 {
+			continue
+		}
+		var mt, mv, mp float64
+		for _, b := range seg {
+			mt += b.Start
+			mv += b.Metrics.EDV
+			mp += b.Metrics.EDP
+		}
+		n := float64(len(seg))
+		mt, mv, mp = mt/n, mv/n, mp/n
+		for _, b := range seg {
+			tc = append(tc, b.Start-mt)
+			vc = append(vc, b.Metrics.EDV-mv)
+			pc = append(pc, b.Metrics.EDP-mp)
+		}
+		d.Span += seg[len(seg)-1].Start - seg[0].Start
+		segs++
 	}
-	return m
+	d.Beats = len(tc)
+	if d.Beats < minDriftBts || d.Span < driftSpan || d.Beats-segs-1 < 1 {
+		return nil
+	}
+	d.EDV, d.EDP = pooledTrend(tc, vc, segs), pooledTrend(tc, pc, segs)
+	return d
 }
 
-// checkDrift looks for baseline drift in the steady beats, where nothing
-// should change: a trend in the lowest pressure of each beat is pressure
-// drift; a trend in the mean of EDV and ESV is volume drift. A significant
-// trend is reported with its effect: over a preload run, drift of ΔV mL (ΔP
-// mmHg) against end-systolic volumes spanning R_V (pressures spanning R_P)
-// moves the ESPVR slope by about ΔV/R_V (ΔP/R_P).
-func (a *Analysis) checkDrift() {
-	st := a.Steady
-	if len(st) < minDriftBts || st[len(st)-1].Start-st[0].Start < driftSpan {
-		return
-	}
-	n := len(st)
-	ts, pmin, vmid := make([]float64, n), make([]float64, n), make([]float64, n)
-	for i, b := range st {
-		ts[i] = b.Start
-		pmin[i] = minOf(b.Samples.P)
-		vmid[i] = 0.5 * (b.Metrics.EDV + b.Metrics.ESV)
-	}
-	span := ts[n-1] - ts[0]
-	sp, okP := trend(ts, pmin)
-	sv, okV := trend(ts, vmid)
-	medEDV := median(append([]float64(nil), vmid...))
-	if run := a.PreloadRun; len(run) > 0 {
-		dur := run[len(run)-1].End - run[0].Start
-		var esv, esp []float64
-		for _, b := range run {
-			esv = append(esv, b.Metrics.ESV)
-			esp = append(esp, b.Metrics.ESP)
-		}
-		rv, rp := spread(esv), spread(esp)
-		if okV && rv > 0 && math.Abs(sv*dur/rv) > driftEes {
-			a.warnf("volume drifts about %+.2g mL/s in the steady beats (conductance drift?): over the %.0f-s preload run that is %.2g mL against end-systolic volumes spanning %.3g mL, moving the ESPVR slope by about %.0f %%",
-				sv, dur, math.Abs(sv*dur), rv, 100*math.Abs(sv*dur/rv))
-		}
-		if okP && rp > 0 && math.Abs(sp*dur/rp) > driftEes {
-			a.warnf("the pressure baseline drifts about %+.2g mmHg/s in the steady beats: over the %.0f-s preload run that is %.2g mmHg against end-systolic pressures spanning %.3g mmHg, moving the ESPVR slope by about %.0f %%",
-				sp, dur, math.Abs(sp*dur), rp, 100*math.Abs(sp*dur/rp))
-		}
-		return
-	}
-	if okP && math.Abs(sp*span) > driftP {
-		a.warnf("the pressure baseline drifts by about %+.2g mmHg over %.0f s of steady beats: pressures (EDP above all) carry the drift", sp*span, span)
-	}
-	if okV && math.Abs(sv*span) > driftVFrac*medEDV {
-		a.warnf("volumes drift by about %+.2g mL over %.0f s of steady beats (conductance drift?): volumes carry the drift", sv*span, span)
-	}
-}
-
-// trend is the least-squares slope of y against t, and whether it exceeds
-// driftSig standard errors.
-func trend(t, y []float64) (float64, bool) {
-	alpha, beta := stat.LinearRegression(t, y, nil, false)
+// pooledTrend is the common slope of y against t, both centred within each
+// of segs segments (a regression through the origin), with its standard error.
+func pooledTrend(t, y []float64, segs int) Trend {
+	_, beta := stat.LinearRegression(t, y, nil, true)
 	var rss, stt float64
-	mt := stat.Mean(t, nil)
 	for i := range t {
-		r := y[i] - alpha - beta*t[i]
+		r := y[i] - beta*t[i]
 		rss += r * r
-		stt += (t[i] - mt) * (t[i] - mt)
+		stt += t[i] * t[i]
 	}
-	se := math.Sqrt(rss/float64(len(t)-2)) / math.Sqrt(stt)
-	return beta, math.Abs(beta) > driftSig*se
+	dof := float64(len(t) - segs - 1)
+	se := math.Sqrt(rss/dof) / math.Sqrt(stt)
+	crit := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: dof}.Quantile(1 - driftLevel/2)
+	return Trend{Slope: beta, SE: se, Significant: math.Abs(beta) > crit*se}
+}
+
+// checkDrift warns of a significant drift with its effect: over a preload
+// run, drift of ΔV mL (ΔP mmHg) against end-systolic volumes spanning R_V
+// (pressures spanning R_P) moves the ESPVR slope by about ΔV/R_V (ΔP/R_P);
+// without one, what it adds to the volumes (pressures) across the steady beats.
+func (a *Analysis) checkDrift() {
+	d := a.measureDrift()
+	a.Drift = d
+	if d == nil {
+		return
+	}
+	if len(a.Runs) > 0 {
+		var worstV, worstP float64
+		var wv, wp *Run
+		var dv, dp, rvv, rpp float64
+		for _, run := range a.Runs {
+			b := run.Beats
+			dur := b[len(b)-1].End - b[0].Start
+			var esv, esp []float64
+			for _, x := range b {
+				esv = append(esv, x.Metrics.ESV)
+				esp = append(esp, x.Metrics.ESP)
+			}
+			rv, rp := spread(esv), spread(esp)
+			if e := math.Abs(d.EDV.Slope * dur / rv); d.EDV.Significant && rv > 0 && e > driftEes && e > worstV {
+				worstV, wv, dv, rvv = e, run, dur, rv
+			}
+			if e := math.Abs(d.EDP.Slope * dur / rp); d.EDP.Significant && rp > 0 && e > driftEes && e > worstP {
+				worstP, wp, dp, rpp = e, run, dur, rp
+			}
+		}
+		if wv != nil {
+			a.warnf("volume drifts about %+.2g mL/s in the steady beats (conductance drift?): over the %.0f-s preload run of beats %d–%d that is %.2g mL against end-systolic volumes spanning %.3g mL, moving the ESPVR slope by about %.0f %%",
+				d.EDV.Slope, dv, wv.First(), wv.Last(), math.Abs(d.EDV.Slope*dv), rvv, 100*worstV)
+		}
+		if wp != nil {
+			a.warnf("the pressure baseline drifts about %+.2g mmHg/s in the steady beats: over the %.0f-s preload run of beats %d–%d that is %.2g mmHg against end-systolic pressures spanning %.3g mmHg, moving the ESPVR slope by about %.0f %%",
+				d.EDP.Slope, dp, wp.First(), wp.Last(), math.Abs(d.EDP.Slope*dp), rpp, 100*worstP)
+		}
+		return
+	}
+	var edv []float64
+	for _, b := range a.Steady {
+		edv = append(edv, b.Metrics.EDV)
+	}
+	medEDV := median(edv)
+	if d.EDP.Significant && math.Abs(d.EDP.Slope*d.Span) > driftP {
+		a.warnf("the pressure baseline drifts by about %+.2g mmHg over %.0f s of steady beats: pressures (EDP above all) carry the drift", d.EDP.Slope*d.Span, d.Span)
+	}
+	if d.EDV.Significant && math.Abs(d.EDV.Slope*d.Span) > driftVFrac*medEDV {
+		a.warnf("volumes drift by about %+.2g mL over %.0f s of steady beats (conductance drift?): volumes carry the drift", d.EDV.Slope*d.Span, d.Span)
+	}
 }
 
 func spread(x []float64) float64 {

@@ -17,97 +17,74 @@ const maxFill = 5
 // fraction, before a segment is resampled.
 const jitterTol = 0.1
 
-// setTimeline checks the sample times, finds the sampling rate and gaps, and
-// makes the time grid uniform within each segment. lines are the file lines
-// of the samples, for messages.
-func (r *Recording) setTimeline(lines []int, o ReadOptions) error {
-	n := len(r.T)
-	col := r.Columns.Time
-	for i := 1; i < n; i++ {
-		if !(r.T[i] > r.T[i-1]) {
-			return &InputError{File: r.Source, Line: lines[i], Column: col, Msg: fmt.Sprintf(
-				"time %g s is not after the previous sample's %g s (line %d); times must increase", r.T[i], r.T[i-1], lines[i-1])}
-		}
-	}
-	dts := make([]float64, n-1)
-	for i := range dts {
-		dts[i] = r.T[i+1] - r.T[i]
-	}
-	sorted := slices.Clone(dts)
-	slices.Sort(sorted)
-	med := sorted[len(sorted)/2]
-	rate := 1 / med
-	if !(rate >= MinRate*0.99 && rate <= MaxRate*1.01) {
+// setTimeline finds the sampling rate and gaps from the sample times t
+// (increasing, checked while reading) and makes the time grid uniform within
+// each segment: a segment whose intervals all lie within jitterTol of the
+// median keeps its samples at its mean interval; one with short gaps or
+// jitter is resampled to the median interval by linear interpolation.
+func (r *Recording) setTimeline(t *times, o ReadOptions, rd *reader) error {
+	n := t.n
+	med := medianInterval(t)
+	rate, _ := strconv.ParseFloat(strconv.FormatFloat(1/med, 'g', 9, 64), 64)
+	if !(rate >= MinRate && rate <= MaxRate) {
 		hint := ""
 		switch {
 		case r.Columns.TimeUnit == "s" && rate*1e3 >= MinRate && rate*1e3 <= MaxRate:
 			hint = "; the times look like milliseconds: name the column e.g. \"time_ms\" or give --time-unit ms"
 		case r.Columns.TimeUnit == "ms" && rate/1e3 >= MinRate && rate/1e3 <= MaxRate:
 			hint = "; the times look like seconds: give --time-unit s"
-		case o.Rate > 0:
 		}
-		return &InputError{File: r.Source, Column: col, Msg: fmt.Sprintf(
-			"sampling rate %.4g Hz (median step %.4g %s) is outside %d to %d Hz%s",
+		cell := r.Columns.cells[0]
+		return &InputError{File: r.Source, Line: max(cell.line, 1), Col: max(cell.col, 1), Column: r.Columns.Time, Msg: fmt.Sprintf(
+			"sampling rate %.6g Hz (median step %.4g %s) is outside %d to %d Hz%s",
 			rate, med/timeScale[r.Columns.TimeUnit], r.Columns.TimeUnit, MinRate, MaxRate, hint)}
 	}
 	// The median interval carries the file's rounding: 1/0.004 reads as
 	// 249.99999999999977. Nine significant digits are plenty.
-	r.Rate, _ = strconv.ParseFloat(strconv.FormatFloat(rate, 'g', 9, 64), 64)
+	r.Rate = rate
 
-	// Split at long gaps; resample segments with short gaps or jitter.
-	var segs []Span
+	// Split at long gaps; note which segments need resampling.
+	var spans []Span
 	from := 0
-	for i, dt := range dts {
-		if math.Round(dt/med)-1 > maxFill {
-			segs = append(segs, Span{from, i + 1})
-			r.Gaps = append(r.Gaps, Gap{r.T[i], r.T[i+1]})
+	for i := 0; i+1 < n; i++ {
+		if dt := t.at(i+1) - t.at(i); math.Round(dt/med)-1 > maxFill {
+			spans = append(spans, Span{from, i + 1})
+			r.Gaps = append(r.Gaps, Gap{t.at(i), t.at(i + 1)})
 			from = i + 1
 		}
 	}
-	segs = append(segs, Span{from, n})
-	var t, p, v, pao []float64
+	spans = append(spans, Span{from, n})
 	filled, jitter := 0, 0
-	for _, s := range segs {
-		need := false
+	need := make([]bool, len(spans))
+	for k, s := range spans {
 		for i := s.From; i < s.To-1; i++ {
-			switch d := dts[i] / med; {
+			switch d := (t.at(i+1) - t.at(i)) / med; {
 			case d >= 1.5:
 				filled++
-				need = true
+				need[k] = true
 			case math.Abs(d-1) > jitterTol:
 				jitter++
-				need = true
+				need[k] = true
 			}
 		}
-		start := len(t)
-		if !need {
-			t = append(t, r.T[s.From:s.To]...)
-			p = append(p, r.P[s.From:s.To]...)
-			v = append(v, r.V[s.From:s.To]...)
-			if r.Pao != nil {
-				pao = append(pao, r.Pao[s.From:s.To]...)
-			}
-		} else {
-			grid := uniformGrid(r.T[s.From], r.T[s.To-1], med)
-			t = append(t, grid...)
-			p = append(p, resample(r.T[s.From:s.To], r.P[s.From:s.To], grid)...)
-			v = append(v, resample(r.T[s.From:s.To], r.V[s.From:s.To], grid)...)
-			if r.Pao != nil {
-				pao = append(pao, resample(r.T[s.From:s.To], r.Pao[s.From:s.To], grid)...)
-			}
-		}
-		r.Segments = append(r.Segments, Span{start, len(t)})
 	}
-	r.T, r.P, r.V = t, p, v
-	if r.Pao != nil {
-		r.Pao = pao
+	if !slices.Contains(need, true) {
+		for _, s := range spans {
+			step := med
+			if s.To-s.From > 1 {
+				step = (t.at(s.To-1) - t.at(s.From)) / float64(s.To-s.From-1)
+			}
+			r.Segments = append(r.Segments, Segment{Span: s, Start: t.at(s.From), Step: step})
+		}
+	} else {
+		r.resample(t, spans, need, med)
 	}
 	if filled > 0 {
 		r.warnf("%d short gaps (up to %d missing samples) were filled by linear interpolation", filled, maxFill)
 	}
 	if jitter > 0 {
-		r.warnf("sampling is irregular (%d of %d intervals differ from the median %.4g ms by more than %.0f %%): resampled to %.4g Hz by linear interpolation",
-			jitter, len(dts), med*1e3, jitterTol*100, rate)
+		r.warnf("sampling is irregular (%d of %d intervals differ from the median %.4g ms by more than %.0f %%): resampled to %.6g Hz by linear interpolation",
+			jitter, n-1, med*1e3, jitterTol*100, rate)
 	}
 	for _, g := range r.Gaps {
 		r.warnf("gap in the recording from %.3f s to %.3f s: beats across it are dropped", g.From, g.To)
@@ -115,25 +92,63 @@ func (r *Recording) setTimeline(lines []int, o ReadOptions) error {
 	return nil
 }
 
-// uniformGrid returns t0, t0+dt, … up to t1.
-func uniformGrid(t0, t1, dt float64) []float64 {
-	m := int(math.Floor((t1-t0)/dt+1e-6)) + 1
-	g := make([]float64, m)
-	for i := range g {
-		g[i] = t0 + float64(i)*dt
-	}
-	return g
+// medianInterval is the median of the sampling intervals.
+func medianInterval(t *times) float64 {
+	return quantileOf(t.n-1, func(i int) float64 { return t.at(i+1) - t.at(i) }, 0.5)
 }
 
-// resample interpolates y(t) linearly at the grid times.
-func resample(t, y, grid []float64) []float64 {
-	var pl interp.PiecewiseLinear
-	if err := pl.Fit(t, y); err != nil {
-		panic(err) // t is checked to increase and has at least 2 samples
+// resample puts the segments marked in need on a grid of step med (linear
+// interpolation, a block at a time) and copies the others.
+func (r *Recording) resample(t *times, spans []Span, need []bool, med float64) {
+	var p, v, pao column
+	cols := []struct{ src, dst *column }{{&r.p, &p}, {&r.v, &v}}
+	if r.hasAortic {
+		cols = append(cols, struct{ src, dst *column }{&r.pao, &pao})
 	}
-	out := make([]float64, len(grid))
-	for i, x := range grid {
-		out[i] = pl.Predict(x)
+	var tb, yb []float64
+	for k, s := range spans {
+		start := p.n
+		if !need[k] {
+			for _, c := range cols {
+				for i := s.From; i < s.To; i++ {
+					c.dst.push(c.src.at(i))
+				}
+			}
+			step := med
+			if s.To-s.From > 1 {
+				step = (t.at(s.To-1) - t.at(s.From)) / float64(s.To-s.From-1)
+			}
+			r.Segments = append(r.Segments, Segment{Span{start, p.n}, t.at(s.From), step})
+			continue
+		}
+		t0, t1 := t.at(s.From), t.at(s.To-1)
+		m := int(math.Floor((t1-t0)/med+1e-6)) + 1
+		// Blocks of input samples overlapping by one; each grid time is
+		// predicted from the block that holds it.
+		g := 0
+		for b := s.From; b < s.To-1 && g < m; b += blockSize {
+			e := min(s.To, b+blockSize+1)
+			tb = t.window(tb, b, e)
+			for _, c := range cols {
+				yb = c.src.window(yb, b, e)
+				var pl interp.PiecewiseLinear
+				if err := pl.Fit(tb, yb); err != nil {
+					panic(err) // times increase and a block has at least 2 samples
+				}
+				for j := g; j < m; j++ {
+					x := t0 + float64(j)*med
+					if x > tb[len(tb)-1] && e < s.To {
+						break
+					}
+					c.dst.push(pl.Predict(math.Min(x, tb[len(tb)-1])))
+				}
+			}
+			g = p.n - start
+		}
+		r.Segments = append(r.Segments, Segment{Span{start, p.n}, t0, med})
 	}
-	return out
+	r.p, r.v = p, v
+	if r.hasAortic {
+		r.pao = pao
+	}
 }

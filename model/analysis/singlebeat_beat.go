@@ -1,21 +1,28 @@
 package analysis
 
 import (
-	"fmt"
+	"math"
 	"slices"
 
 	"gonum.org/v1/gonum/stat"
 )
 
 // SingleBeat are the single-beat estimates from the steady beats of a
-// recording: each input is the median over the beats.
+// recording: each input is the median over the beats. They are estimates,
+// not measurements: Chen's Ees rests on a normalised elastance averaged over
+// patients, Klotz's EDPVR on a normalised curve averaged over hearts
+// (docs/science.md §5).
 type SingleBeat struct {
 	Beats int     // steady beats used
-	Ps    float64 // peak LV pressure, taken for systolic arterial pressure, mmHg
-	Pd    float64 // LV pressure at the onset of ejection, taken for diastolic arterial pressure, mmHg
+	Ps    float64 // systolic arterial pressure, mmHg: the aortic SBP, else peak LV pressure
+	Pd    float64 // diastolic arterial pressure, mmHg: the aortic DBP, else LV pressure at the onset of ejection
+	// PFrom says where Ps and Pd come from: "aortic" or "lv".
+	PFrom string
 	SV    float64 // mL
 	EF    float64 // fraction
-	TNd   float64 // pre-ejection time / total systolic time
+	TNd   float64 // onset of ejection / end of ejection, both timed from end-diastole
+	TOpen float64 // s from end-diastole to the onset of ejection (median)
+	TEnd  float64 // s from end-diastole to the end of ejection (median)
 	EDV   float64 // mL
 	EDP   float64 // mmHg
 
@@ -25,45 +32,30 @@ type SingleBeat struct {
 	KlotzErr string      //
 }
 
-// Timing of systole in an LV-only recording (no aortic pressure, no ECG;
-// common practice, no source): the aortic valve opens at peak dP/dt, where
-// ejection starts to slow the pressure rise, and the LV pressure there stands
-// in for the diastolic arterial pressure. Systole runs from end-diastole (the
-// onset of isovolumic contraction, standing in for the ECG's Q wave) to the
-// end of ejection at the smallest volume.
-//
-// chenTiming finds, in a measured beat, the LV pressure at the onset of
-// ejection and tNd.
-func chenTiming(b *Beat) (pd, tnd float64, err error) {
-	s := b.Samples
-	imin, imax := 0, 0
-	for i := range s.V {
-		if s.V[i] < s.V[imin] {
-			imin = i
-		}
-		if s.DPdt[i] > s.DPdt[imax] {
-			imax = i
-		}
-	}
-	if imax == 0 || imax >= imin {
-		return 0, 0, fmt.Errorf("peak dP/dt does not precede the end of ejection")
-	}
-	pd = s.P[imax]
-	tnd = (s.T[imax] - s.T[0]) / (s.T[imin] - s.T[0])
-	return pd, tnd, nil
-}
+// Timing of systole in a recording without an ECG (common practice, no
+// source; docs/science.md §5): end-diastole (the onset of isovolumic
+// contraction) stands in for the ECG's Q wave; the onset and end of ejection
+// come from the outflow (see Ejection). tNd is the pre-ejection time over the
+// total systolic time measured so.
 
 // singleBeat computes the single-beat estimates from steady, kept beats.
 func singleBeat(beats []*Beat) *SingleBeat {
-	var ps, pd, sv, ef, tnd, edv, edp []float64
+	var ps, pd, sv, ef, tnd, top, tend, edv, edp []float64
+	aortic := len(beats) > 0 && !math.IsNaN(beats[0].Metrics.SBP)
 	for _, b := range beats {
-		d, t, err := chenTiming(b)
-		if err != nil {
+		e := b.Ejection
+		if !e.Found() {
 			continue
 		}
-		ps = append(ps, slices.Max(b.Samples.P))
-		pd = append(pd, d)
-		tnd = append(tnd, t)
+		if aortic {
+			ps = append(ps, b.Metrics.SBP)
+			pd = append(pd, b.Metrics.DBP)
+		} else {
+			ps = append(ps, b.peakP)
+			pd = append(pd, e.POpen)
+		}
+		tnd = append(tnd, e.Open/e.Close)
+		top, tend = append(top, e.Open), append(tend, e.Close)
 		sv = append(sv, b.Metrics.SV)
 		ef = append(ef, b.Metrics.EF/100)
 		edv = append(edv, b.Metrics.EDV)
@@ -72,8 +64,11 @@ func singleBeat(beats []*Beat) *SingleBeat {
 	if len(ps) == 0 {
 		return nil
 	}
-	sb := &SingleBeat{Beats: len(ps), Ps: median(ps), Pd: median(pd), SV: median(sv), EF: median(ef), TNd: median(tnd),
-		EDV: median(edv), EDP: median(edp)}
+	sb := &SingleBeat{Beats: len(ps), Ps: median(ps), Pd: median(pd), PFrom: "lv", SV: median(sv), EF: median(ef), TNd: median(tnd),
+		TOpen: median(top), TEnd: median(tend), EDV: median(edv), EDP: median(edp)}
+	if aortic {
+		sb.PFrom = "aortic"
+	}
 	if c, err := Chen2001(sb.Ps, sb.Pd, sb.SV, sb.EF, sb.TNd); err != nil {
 		sb.ChenErr = err.Error()
 	} else {
