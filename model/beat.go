@@ -25,8 +25,9 @@ type Beat struct {
 	PLV        []float64 // LV pressure, mmHg
 	VLV        []float64 // LV volume, mL
 	PAO        []float64 // proximal aortic pressure, mmHg
-	QIn        []float64 // mitral flow, mL/s
-	QOut       []float64 // aortic flow, mL/s
+	QIn        []float64 // mitral flow, mL/s, negative for regurgitant backflow
+	QOut       []float64 // aortic valve flow, mL/s, negative for regurgitant backflow
+	QPump      []float64 // flow of a pump from the LV to the aorta, mL/s (0 when off)
 	DPdt       []float64 // dP/dt of LV pressure, mmHg/s
 	// V and P hold the volume (mL) and pressure (mmHg) of every compartment:
 	// all of them in a closed circulation, the left ventricle and systemic
@@ -35,8 +36,16 @@ type Beat struct {
 	V, P [NumCompartments][]float64
 	// QTricuspid and QPulmonic are the right heart's valve flows, mL/s (closed only).
 	QTricuspid, QPulmonic []float64
-	// LAPMean is the time mean of left-atrial pressure over the beat, mmHg.
+	// LAPMean is the time mean of left-atrial pressure over the beat, mmHg
+	// (over the two beats of a 1:2 balloon cycle in a steady state).
 	LAPMean float64
+	// DiastoleStart is where diastole begins, s: the aortic valve's closure
+	// after its opening, or where the activation has fallen to half its
+	// peak when the valve does not open (a pump carrying the output).
+	DiastoleStart float64
+	// BalloonOnset is where an aortic balloon began to inflate, s; NaN when
+	// it did not inflate in this beat.
+	BalloonOnset float64
 	Valves  ValveTimes
 	Metrics Metrics
 }
@@ -74,6 +83,15 @@ type Solver struct {
 	events []ode.Event
 	y      []float64
 	valves ValveTimes
+	// diastole is the time of the beat's first aortic valve closure after an
+	// opening, or where it stood in for one (devices.go); NaN before.
+	diastole float64
+	// cycleStart is the start of the last beat of the last cycle (devices.go).
+	cycleStart State
+	// leftEvents are the times of every mitral and aortic valve event of the
+	// beat, which become samples (a valve with a lesion may switch more than
+	// once).
+	leftEvents []float64
 
 	grid actGrid // activation on the sample grid
 }
@@ -132,6 +150,7 @@ func (s *Solver) integrate(x State) (State, float64, error) {
 	events := s.events[:nv]
 	s.ode.SetInitialStep(0)
 	t, period := 0.0, s.c.act.Period
+	s.beginDevices(x)
 	for n := 0; t < period; n++ {
 		if n > maxSwitches {
 			return State{}, nan, fmt.Errorf("valves switched more than %d times in one beat", maxSwitches)
@@ -147,7 +166,7 @@ func (s *Solver) integrate(x State) (State, float64, error) {
 		} else {
 			s.ode.SetMaxStep(0)
 		}
-		res, err := s.ode.Solve(t, period, y, events, s.dense.Add)
+		res, err := s.ode.Solve(t, s.devicesStop(t, period), y, events, s.dense.Add)
 		if err != nil {
 			return State{}, nan, err
 		}
@@ -158,9 +177,11 @@ func (s *Solver) integrate(x State) (State, float64, error) {
 			v.open = !v.open
 			s.noteValve(res.Event, v.open, t)
 		}
+		s.devicesAt(res.Event, t)
 	}
 	var end State
 	copy(end.V[:], y[:s.c.dim()])
+	end.BalloonRested = !s.c.bal.inflated()
 	for _, v := range y {
 		if !finite(v) {
 			return end, nan, errNotFinite

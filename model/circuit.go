@@ -1,5 +1,7 @@
 package model
 
+import "math"
+
 // Compartment names one volume of the model's state.
 type Compartment int
 
@@ -30,6 +32,9 @@ var CompartmentNames = [NumCompartments]string{"left ventricle", "systemic arter
 // circulation uses the left ventricle and the systemic arteries only.
 type State struct {
 	V [NumCompartments]float64
+	// BalloonRested says that the beat which ended here did not inflate an
+	// aortic balloon, so that at 1:2 the next beat does (balloon.go).
+	BalloonRested bool
 }
 
 // Dimensions of the ODE system: the held circuit's two volumes; the closed
@@ -53,13 +58,17 @@ const (
 //   - systemic veins, pulmonary arteries and pulmonary veins: compliances
 //     (vessel.go) joined by the venous return, pulmonary and pulmonary-venous
 //     resistances;
-//   - mitral, aortic, tricuspid and pulmonary valves (valve.go).
+//   - mitral, aortic, tricuspid and pulmonary valves (valve.go), the left
+//     heart's with their lesions (lesion.go);
+//   - support devices: a pump from the left ventricle to the systemic
+//     arteries (pump.go) and a balloon inside them (balloon.go).
 //
 // Blood runs LV → aortic valve → Zc → systemic arteries → R → systemic veins →
 // venous return resistance → RA → tricuspid valve → RV → pulmonary valve →
 // pulmonary arteries → pulmonary resistance → pulmonary veins → LA → mitral
 // valve → LV. In the held circuit the left atrium is a pressure source at the
 // filling pressure and the systemic veins a sink at the venous pressure.
+// A pump runs from the LV to the systemic arteries beside the aortic valve.
 type circuit struct {
 	closed    bool
 	lv, rv    ventricle
@@ -68,6 +77,8 @@ type circuit struct {
 	sv        vessel // systemic veins
 	pa, pv    vessel // pulmonary arteries and veins
 	valves    [numValves]valve
+	pump      pump
+	bal       balloon
 	zc, r     float64 // Windkessel Zc and R
 	rvr, rp   float64 // venous return (with any caval occlusion) and pulmonary resistance
 	fill, pv0 float64 // held: left-atrial and venous pressure
@@ -97,6 +108,8 @@ func (c *circuit) setParams(p *Params) {
 	c.valves[aorticValve].r = p.AorticResistance + p.Zc
 	c.valves[tricuspidValve].r = tricuspidResistance
 	c.valves[pulmonicValve].r = pulmonicResistance
+	c.setLesions(p)
+	c.pump = p.pumpOf()
 	c.zc, c.r = p.Zc, p.Resistance
 	c.rvr = p.VenousReturnResistance / (1 - p.CavalOcclusion/100)
 	c.rp = p.PulmonaryResistance
@@ -114,7 +127,9 @@ func (c *circuit) setParams(p *Params) {
 			c.table = newActivationTable(&c.act)
 			c.tables[p.HeartRate] = c.table
 		}
+		c.bal.relax = math.NaN() // found when a balloon needs it
 	}
+	c.bal.vol, c.bal.ratio, c.bal.period = p.BalloonVolume, int(p.BalloonRatio), c.act.Period
 	if c.closed && (c.atr.period != c.act.Period || c.atr.pr != p.PRInterval/1000) {
 		c.atr = newAtrialActivation(p.HeartRate, p.PRInterval)
 	}
@@ -149,7 +164,7 @@ func (c *circuit) pressures(t float64, y []float64) (*[NumCompartments]float64, 
 	e, _ := c.table.at(t)
 	p := &c.cacheP
 	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
-	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries])
+	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
 	if c.closed {
 		ea := c.atr.E(t)
 		p[SystemicVeins] = c.sv.pressure(y[SystemicVeins])
@@ -179,6 +194,7 @@ func (c *circuit) sameY(y []float64) bool {
 // flows are the flows of the circuit at one instant, mL/s.
 type flows struct {
 	mitral, aortic, tricuspid, pulmonic float64 // valves
+	pump                                float64 // LV to systemic arteries
 	systemic, venous, pulmonary, pvla   float64 // R, venous return, pulmonary and pulmonary-venous resistances
 }
 
@@ -187,6 +203,7 @@ func (c *circuit) flowsAt(p *[NumCompartments]float64) flows {
 	var f flows
 	f.mitral = c.valves[mitralValve].flow(p[LeftAtrium] - p[LeftVentricle])
 	f.aortic = c.valves[aorticValve].flow(p[LeftVentricle] - p[SystemicArteries])
+	f.pump = c.pump.flow(p[LeftVentricle], p[SystemicArteries])
 	f.systemic = (p[SystemicArteries] - p[SystemicVeins]) / c.r
 	if c.closed {
 		f.venous = (p[SystemicVeins] - p[RightAtrium]) / c.rvr
@@ -203,8 +220,8 @@ func (c *circuit) flowsAt(p *[NumCompartments]float64) flows {
 func (c *circuit) rhs(t float64, y, dy []float64) {
 	p, _ := c.pressures(t, y)
 	f := c.flowsAt(p)
-	dy[LeftVentricle] = f.mitral - f.aortic
-	dy[SystemicArteries] = f.aortic - f.systemic
+	dy[LeftVentricle] = f.mitral - f.aortic - f.pump
+	dy[SystemicArteries] = f.aortic + f.pump - f.systemic
 	if !c.closed {
 		return
 	}

@@ -41,6 +41,21 @@ type Metrics struct {
 	CVP           float64 // mean right-atrial (central venous) pressure, mmHg
 	PAPMean       float64 // mean pulmonary arterial pressure, mmHg
 	RVSV          float64 // right-ventricular stroke volume, mL
+
+	// Valve lesions and support devices (metrics_devices.go); NaN for a
+	// recording, which has no flows, and where the beat has no such phase.
+	AVMeanGradient      float64 // mean LV − aortic pressure during forward aortic flow, mmHg
+	AVPeakGradient      float64 // peak LV − aortic pressure during forward aortic flow, mmHg
+	MVMeanGradient      float64 // mean LA − LV pressure during forward mitral flow, mmHg
+	RegurgitantVolume   float64 // backflow through the mitral and aortic valves per beat, mL
+	RegurgitantFraction float64 // regurgitant volume over total SV, %
+	ForwardSV           float64 // net flow through the aortic valve per beat, mL
+	TotalSV             float64 // all the ventricle ejects, every way: EDV − smallest volume, mL
+	AVOpen              float64 // time the aortic valve passes forward flow, ms (0: it stays shut)
+	PumpCO              float64 // mean flow of the pump, L/min
+	TotalCO             float64 // net aortic valve flow plus pump flow, L/min
+	DiastolicAugment    float64 // rise of aortic pressure in diastole above its value at its start, mmHg
+	AorticEDP           float64 // aortic pressure at the end of the beat's diastole, mmHg
 }
 
 // BeatSamples are the samples of one cardiac cycle. The first and last
@@ -214,6 +229,7 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	m.EDStress = wallStress(m.EDP, m.EDV, k.WallVolume)
 	m.ESStress = wallStress(m.ESP, m.ESV, k.WallVolume)
 	m.LAPMean, m.AtrialFilling, m.CVP, m.PAPMean, m.RVSV = nan, nan, nan, nan, nan
+	m.noDeviceMetrics()
 	return m, nil
 }
 

@@ -7,8 +7,8 @@ import "math"
 // is not modelled (NaN). Closed: the time means of left-atrial,
 // right-atrial (central venous) and pulmonary arterial pressure, the right
 // ventricle's stroke volume (its largest less its smallest volume), and the
-// share of mitral inflow that enters while the atria contract (the A wave of
-// the filling, docs/science.md §9).
+// share of forward mitral inflow that enters while the atria contract (the A
+// wave of the filling, docs/science.md §9).
 func (s *Solver) measureCirculation(b *Beat) {
 	m := &b.Metrics
 	m.LAPMean = b.LAPMean
@@ -22,6 +22,9 @@ func (s *Solver) measureCirculation(b *Beat) {
 	var all, atrial float64
 	for i := 1; i < len(b.T); i++ {
 		q := 0.5 * (b.QIn[i] + b.QIn[i-1]) * (b.T[i] - b.T[i-1])
+		if q <= 0 {
+			continue // mitral regurgitation is not filling
+		}
 		all += q
 		if s.c.atr.contracting(0.5 * (b.T[i] + b.T[i-1])) {
 			atrial += q

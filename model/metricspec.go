@@ -46,6 +46,18 @@ var MetricSpecs = []MetricSpec{
 	{"cvp_mmhg", "mmHg", "CVP", "mean right-atrial (central venous) pressure (closed circulation)", func(m *Metrics) float64 { return m.CVP }},
 	{"pap_mean_mmhg", "mmHg", "mPAP", "mean pulmonary arterial pressure (closed circulation)", func(m *Metrics) float64 { return m.PAPMean }},
 	{"rv_sv_ml", "mL", "RV SV", "right-ventricular stroke volume (closed circulation)", func(m *Metrics) float64 { return m.RVSV }},
+	{"av_mean_gradient_mmhg", "mmHg", "AV mean grad", "mean LV − aortic pressure while the aortic valve passes forward flow", func(m *Metrics) float64 { return m.AVMeanGradient }},
+	{"av_peak_gradient_mmhg", "mmHg", "AV peak grad", "peak instantaneous LV − aortic pressure during forward aortic flow", func(m *Metrics) float64 { return m.AVPeakGradient }},
+	{"mv_mean_gradient_mmhg", "mmHg", "MV mean grad", "mean LA − LV pressure while the mitral valve passes forward flow", func(m *Metrics) float64 { return m.MVMeanGradient }},
+	{"regurgitant_volume_ml", "mL", "RVol", "backflow through the mitral and aortic valves per beat", func(m *Metrics) float64 { return m.RegurgitantVolume }},
+	{"regurgitant_fraction_pct", "%", "RF", "regurgitant volume over total stroke volume", func(m *Metrics) float64 { return m.RegurgitantFraction }},
+	{"forward_sv_ml", "mL", "fwd SV", "net flow through the aortic valve per beat", func(m *Metrics) float64 { return m.ForwardSV }},
+	{"total_sv_ml", "mL", "total SV", "all the ventricle ejects, forward and back (EDV − smallest volume)", func(m *Metrics) float64 { return m.TotalSV }},
+	{"av_open_ms", "ms", "AV open", "time the aortic valve passes forward flow (0: it stays shut)", func(m *Metrics) float64 { return m.AVOpen }},
+	{"pump_co_l_per_min", "L/min", "pump CO", "mean flow of the LV-to-aorta pump", func(m *Metrics) float64 { return m.PumpCO }},
+	{"total_co_l_per_min", "L/min", "total CO", "output to the body: net aortic valve flow plus pump flow", func(m *Metrics) float64 { return m.TotalCO }},
+	{"diastolic_augmentation_mmhg", "mmHg", "augment", "peak aortic pressure in diastole less its value at aortic valve closure", func(m *Metrics) float64 { return m.DiastolicAugment }},
+	{"aortic_edp_mmhg", "mmHg", "Ao EDP", "aortic pressure at the end of diastole (the onset of the next contraction)", func(m *Metrics) float64 { return m.AorticEDP }},
 }
 
 // MetricByKey returns the spec of a metric key.

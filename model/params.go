@@ -40,6 +40,18 @@ type Params struct {
 	AtrialEmax             float64 // peak elastance of both atria, mmHg/mL
 	AtrialEmin             float64 // passive elastance of both atria, mmHg/mL
 	PRInterval             float64 // atrial activation onset before the ventricles', ms
+
+	// Valve lesions and mechanical support (docs/science.md §11–12), in both
+	// circulations. Each has an off value (DeviceOff) that means no lesion or
+	// no device; a scenario that leaves one out has it off.
+	AorticValveArea       float64 // effective orifice area of the open aortic valve, cm² (4 = normal)
+	AorticRegurgitantArea float64 // regurgitant orifice area of the shut aortic valve, cm² (0 = none)
+	MitralValveArea       float64 // effective orifice area of the open mitral valve, cm² (6 = normal)
+	MitralRegurgitantArea float64 // effective regurgitant orifice area of the shut mitral valve, cm² (0 = none)
+	PumpFlow              float64 // continuous-flow pump from LV to aorta: flow at zero head, L/min (0 = off)
+	PumpHead              float64 // the pump's head at zero flow, mmHg
+	BalloonVolume         float64 // aortic counterpulsation balloon, mL (0 = off)
+	BalloonRatio          float64 // beats per inflation: 1 (1:1) or 2 (1:2)
 }
 
 // Spec describes one parameter: its key (unit in the name), unit, allowed
@@ -55,6 +67,13 @@ type Spec struct {
 	// only restricts the parameter to one circulation when set.
 	only   bool
 	onlyIn Circulation
+	// Device marks a valve lesion or support device lever: Off is its value
+	// when there is none, and a scenario may leave it out.
+	Device bool
+	Off    float64
+	// Hint, when set, follows the allowed range in errors: why the range ends
+	// where it does.
+	Hint string
 }
 
 // ActsIn reports whether the parameter acts in circulation c.
@@ -133,6 +152,38 @@ var Specs = []Spec{
 		func(p *Params) *float64 { return &p.AtrialEmin })),
 	only(Closed, spec("pr_interval_ms", "PR interval", "ms", 60, 300, "onset of atrial contraction before the ventricles'",
 		func(p *Params) *float64 { return &p.PRInterval })),
+	device(NormalAorticValveArea, "0 would shut the valve; 4 cm² is a normal adult valve [memory, docs/science.md §11]",
+		spec("aortic_valve_area_cm2", "Aortic valve area", "cm²", 0.3, NormalAorticValveArea,
+			"effective orifice area of the open aortic valve; 4 is a normal valve (no stenosis)",
+			func(p *Params) *float64 { return &p.AorticValveArea })),
+	device(0, "a shut valve leaks through less than its open area [docs/science.md §11]",
+		spec("aortic_regurgitant_area_cm2", "Aortic regurgitant area", "cm²", 0, 0.8,
+			"regurgitant orifice area of the shut aortic valve (0 = no regurgitation)",
+			func(p *Params) *float64 { return &p.AorticRegurgitantArea })),
+	device(NormalMitralValveArea, "0 would shut the valve; 6 cm² is a normal adult valve [memory, docs/science.md §11]",
+		spec("mitral_valve_area_cm2", "Mitral valve area", "cm²", 0.5, NormalMitralValveArea,
+			"effective orifice area of the open mitral valve; 6 is a normal valve (no stenosis)",
+			func(p *Params) *float64 { return &p.MitralValveArea })),
+	device(0, "a shut valve leaks through less than its open area [docs/science.md §11]",
+		spec("mitral_regurgitant_area_cm2", "Mitral regurgitant area", "cm²", 0, 1,
+			"effective regurgitant orifice area of the shut mitral valve (0 = no regurgitation)",
+			func(p *Params) *float64 { return &p.MitralRegurgitantArea })),
+	device(0, "0 turns the pump off [docs/science.md §12]",
+		spec("pump_flow_l_per_min", "Pump flow", "L/min", 0, 8,
+			"continuous-flow pump from LV to aorta: its flow at zero head at the set speed (0 = off)",
+			func(p *Params) *float64 { return &p.PumpFlow })),
+	device(defaultPumpHead, "a pump with a lower head cannot hold the aortic pressure: it runs backwards through diastole and no supported steady beat settles [docs/science.md §12]",
+		spec("pump_head_mmhg", "Pump head", "mmHg", 60, 300,
+			"the pump's head (outlet less inlet pressure) at zero flow; its flow falls linearly with head",
+			func(p *Params) *float64 { return &p.PumpHead })),
+	device(0, "adult balloons hold 25–50 mL; a larger one does not fit the descending aorta [memory, docs/science.md §12]",
+		spec("balloon_volume_ml", "Balloon volume", "mL", 0, maxBalloonVolume,
+			"aortic counterpulsation balloon: inflates at aortic valve closure, empty before ejection (0 = off)",
+			func(p *Params) *float64 { return &p.BalloonVolume })),
+	device(1, "1 inflates every beat (1:1), 2 every other beat (1:2)",
+		spec("balloon_ratio", "Balloon ratio", "beats", 1, 2,
+			"beats per balloon inflation: 1 (every beat, 1:1) or 2 (every other beat, 1:2)",
+			func(p *Params) *float64 { return &p.BalloonRatio })),
 }
 
 func spec(key, name, unit string, lo, hi float64, meaning string, f func(*Params) *float64) Spec {
@@ -140,6 +191,28 @@ func spec(key, name, unit string, lo, hi float64, meaning string, f func(*Params
 }
 
 func only(c Circulation, s Spec) Spec { s.only, s.onlyIn = true, c; return s }
+
+func device(off float64, hint string, s Spec) Spec { s.Device, s.Off, s.Hint = true, off, hint; return s }
+
+// DevicesOff returns p with every lesion and support lever at its off value.
+func (p Params) DevicesOff() Params {
+	for _, s := range Specs {
+		if s.Device {
+			s.Set(&p, s.Off)
+		}
+	}
+	return p
+}
+
+// HasDevice reports whether any lesion or support lever of p is on.
+func (p Params) HasDevice() bool {
+	for _, s := range Specs {
+		if s.Device && s.Get(p) != s.Off {
+			return true
+		}
+	}
+	return false
+}
 
 // SpecByKey returns the spec of a parameter key.
 func SpecByKey(key string) (Spec, bool) {
@@ -194,7 +267,11 @@ func (s Spec) Check(v float64) error {
 		return &ParamError{s.Key, v, "not a finite number; " + s.RangeText()}
 	}
 	if v < s.Min || v > s.Max {
-		return &ParamError{s.Key, v, "out of range; " + s.RangeText()}
+		msg := "out of range; " + s.RangeText()
+		if s.Hint != "" {
+			msg += " (" + s.Hint + ")"
+		}
+		return &ParamError{s.Key, v, msg}
 	}
 	return nil
 }
@@ -219,6 +296,9 @@ func (p Params) Validate() error {
 				"at heart_rate_bpm = %g the beat lasts %.0f ms; the PR interval must be shorter than %.0f ms (0.8 of the beat)",
 				p.HeartRate, period, 0.8*period)}
 		}
+	}
+	if err := p.validateDevices(); err != nil {
+		return err
 	}
 	if x := p.FilledVolume() - p.V0; !(x >= minFilling) {
 		return &ParamError{"filling_pressure_mmhg", p.FillingPressure, fmt.Sprintf(

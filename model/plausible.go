@@ -23,16 +23,9 @@ func (e *ImplausibleError) Error() string {
 // volume or ejection fraction outside 0–100 % is ever reported.
 func checkBeat(b *Beat) error {
 	p := &b.Params
-	lever := func(keys ...string) []string {
-		var out []string
-		for _, k := range keys {
-			s, _ := SpecByKey(k)
-			out = append(out, fmt.Sprintf("%s = %s %s", k, formatG(s.Get(*p)), s.Unit))
-		}
-		return out
-	}
+	lever := func(keys ...string) []string { return leverValues(p, keys...) }
 	_, vmin := extremes(b.VLV)
-	if !(b.Metrics.SV > 0.01*b.Metrics.EDV) {
+	if !(b.Metrics.SV > 0.01*b.Metrics.EDV) && !(p.PumpFlow > 0) {
 		afterload := "venous_pressure_mmhg"
 		if p.Circulation == Closed {
 			afterload = "resistance_mmhg_s_per_ml"
@@ -81,6 +74,16 @@ func checkBeat(b *Beat) error {
 		}
 	}
 	return nil
+}
+
+// leverValues writes the levers keys of p as "key = value unit".
+func leverValues(p *Params, keys ...string) []string {
+	var out []string
+	for _, k := range keys {
+		s, _ := SpecByKey(k)
+		out = append(out, fmt.Sprintf("%s = %s %s", k, formatG(s.Get(*p)), s.Unit))
+	}
+	return out
 }
 
 // formatG writes x with the shortest decimal that reads back.

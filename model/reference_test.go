@@ -215,8 +215,8 @@ func runReference(t *testing.T, py string, p model.Params) referenceDoc {
 }
 
 // TestAgainstSciPyLive runs the reference script now, in each circulation, on
-// a scenario that is not a preset, so the check does not rest on committed
-// files alone.
+// scenarios that are not presets (one of them with valve lesions and support
+// devices), so the check does not rest on committed files alone.
 func TestAgainstSciPyLive(t *testing.T) {
 	if testing.Short() {
 		t.Skip("runs SciPy")
@@ -236,10 +236,23 @@ func TestAgainstSciPyLive(t *testing.T) {
 	closed.PRInterval, closed.PulmonaryResistance, closed.RVEes = 170, 0.12, 0.8
 	closed.AtrialEmax, closed.CavalOcclusion, closed.Zc = 0.4, 30, 0.07
 
-	for _, p := range []model.Params{held, closed} {
-		t.Run(p.Circulation.String(), func(t *testing.T) {
+	// With lesions and devices: stenosis and regurgitation of both valves, a
+	// pump, and a balloon at 1:2 (held) and 1:1 (closed).
+	heldDev := inCirculation(t, "normal", model.Held)
+	heldDev.AorticValveArea, heldDev.MitralRegurgitantArea, heldDev.PumpFlow = 0.9, 0.25, 2
+	heldDev.BalloonVolume, heldDev.BalloonRatio = 35, 2
+	closedDev := inCirculation(t, "hfref", model.Closed)
+	closedDev.AorticRegurgitantArea, closedDev.MitralValveArea, closedDev.PumpFlow, closedDev.PumpHead = 0.2, 1.5, 3, 120
+	closedDev.BalloonVolume = 40
+
+	for _, p := range []model.Params{held, closed, heldDev, closedDev} {
+		name := p.Circulation.String()
+		if p.HasDevice() {
+			name += "/devices"
+		}
+		t.Run(name, func(t *testing.T) {
 			t.Parallel()
-			compareWithReference(t, "live "+p.Circulation.String(), runReference(t, py, p))
+			compareWithReference(t, "live "+name, runReference(t, py, p))
 		})
 	}
 }

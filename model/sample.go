@@ -11,7 +11,7 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 		dt = DefaultSampleInterval
 	}
 	n := int(math.Floor(period/dt+1e-9)) + 1
-	extra := []float64{s.valves.MitralClose, s.valves.AorticOpen, s.valves.AorticClose, s.valves.MitralOpen}
+	extra := append([]float64{s.diastoleStart()}, s.leftEvents...)
 	if c.closed {
 		// The atria's contraction starts and ends on a sample, so that the
 		// filling measured during it is exact (metrics_circulation.go).
@@ -28,7 +28,8 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	}
 	times = mergeTimes(times, extra)
 
-	b := &Beat{Params: s.p, Start: start, End: end, Period: period, T: times, Valves: s.valves, LAPMean: lap}
+	b := &Beat{Params: s.p, Start: start, End: end, Period: period, T: times, Valves: s.valves, LAPMean: lap,
+		DiastoleStart: s.diastoleStart(), BalloonOnset: c.bal.onset}
 	m := len(times)
 	dim := c.dim()
 	comps := dim
@@ -36,9 +37,9 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 		comps = int(NumCompartments)
 	}
 	// One allocation: the volumes (and ∫P_LA), the pressures, then the flows.
-	nflow := 4
+	nflow := 5
 	if c.closed {
-		nflow = 6
+		nflow = 7
 	}
 	buf := make([]float64, (dim+comps+nflow)*m)
 	cols := make([][]float64, dim)
@@ -53,6 +54,7 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	b.QIn, buf = buf[:m:m], buf[m:]
 	b.QOut, buf = buf[:m:m], buf[m:]
 	b.DPdt, buf = buf[:m:m], buf[m:]
+	b.QPump, buf = buf[:m:m], buf[m:]
 	if c.closed {
 		b.QTricuspid, buf = buf[:m:m], buf[m:]
 		b.QPulmonic = buf[:m:m]
@@ -82,12 +84,15 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 			b.P[k][i] = p[k]
 		}
 		_, dpdv, dpde := c.lv.pressureAndSlopes(e, y[LeftVentricle])
-		b.QIn[i], b.QOut[i] = f.mitral, f.aortic
+		b.QIn[i], b.QOut[i], b.QPump[i] = f.mitral, f.aortic, f.pump
 		b.PAO[i] = p[SystemicArteries] + c.zc*f.aortic
-		b.DPdt[i] = dpde*de + dpdv*(f.mitral-f.aortic)
+		b.DPdt[i] = dpde*de + dpdv*(f.mitral-f.aortic-f.pump)
 		if c.closed {
 			b.QTricuspid[i], b.QPulmonic[i] = f.tricuspid, f.pulmonic
 		}
+	}
+	if err := checkSuction(b); err != nil {
+		return nil, err
 	}
 	m2, err := Measure(b.Samples(), s.p.Known())
 	if err != nil {
@@ -95,6 +100,7 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	}
 	b.Metrics = m2
 	s.measureCirculation(b)
+	s.measureDevices(b)
 	return b, nil
 }
 
@@ -103,7 +109,7 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 func (c *circuit) pressuresAt(t, e float64, y []float64) [NumCompartments]float64 {
 	var p [NumCompartments]float64
 	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
-	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries])
+	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
 	if c.closed {
 		ea := c.atr.E(t)
 		p[SystemicVeins] = c.sv.pressure(y[SystemicVeins])

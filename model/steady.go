@@ -186,7 +186,7 @@ func (sh *shooter) eval(z, r []float64) (State, error) {
 	}
 	sh.beats++
 	x := sh.state(z)
-	end, lap, err := sh.s.integrate(x)
+	end, lap, err := sh.s.cycle(x)
 	if err != nil {
 		return end, err
 	}
@@ -336,7 +336,7 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	if sh.closed {
 		lap = r[sh.m] + s.p.FillingPressure
 	}
-	b, err := s.sample(start, end, lap)
+	b, err := s.sample(s.cycleStart, end, lap)
 	if err != nil {
 		return nil, err
 	}

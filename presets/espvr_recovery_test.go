@@ -70,7 +70,14 @@ func recoverESPVR(t *testing.T, pr *Protocol, sc *Scenario) {
 		}
 		// The occlusion must really unload the ventricle for the fit to mean
 		// anything: EDV falls by a tenth or more [common practice, no source].
-		if drop := 1 - edvs[len(edvs)-1]/tr.Steady().Metrics.EDV; drop < 0.1 {
+		// A heart in shock (output under 4 L/min) empties its lungs too slowly
+		// for 12 beats of occlusion to do that; there the fall must still be
+		// clear, 4 % or more.
+		least := 0.1
+		if tr.Steady().Metrics.CO < 4 {
+			least = 0.04
+		}
+		if drop := 1 - edvs[len(edvs)-1]/tr.Steady().Metrics.EDV; drop < least {
 			t.Errorf("%s: EDV fell only %.0f %% during the occlusion", name, 100*drop)
 		}
 		fit, err := analysis.FitESPVR(loops, 0)

@@ -249,9 +249,10 @@ func decodeSingle(data []byte, name string) (*yaml.Node, error) {
 
 // decodeParams reads a mapping of parameter keys to numbers. Keys missing from
 // the mapping come from base. Without base every key is required but those of
-// the closed circulation, which come from the default preset, and the
-// stressed volume, which is calibrated (see settle). It reports whether the
-// stressed volume was given.
+// the closed circulation, which come from the default preset, the valve
+// lesion and support levers, which are off, and the stressed volume, which
+// is calibrated (see settle). It reports whether the stressed volume was
+// given.
 func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (model.Params, bool, error) {
 	p, given, err := decodeParamValues(n, path, base, file)
 	if err != nil || base != nil {
@@ -262,6 +263,10 @@ func decodeParams(n *yaml.Node, path string, base *model.Params, file string) (m
 	for _, s := range model.Specs {
 		if given[s.Key] || s.Key == "stressed_volume_ml" ||
 			s.Key == "filling_pressure_mmhg" && given["stressed_volume_ml"] {
+			continue
+		}
+		if s.Device {
+			s.Set(&p, s.Off)
 			continue
 		}
 		if !s.ActsIn(model.Held) {

@@ -8,7 +8,7 @@ cd "$(dirname "$0")/../.."
 py=python3
 if [ -x /usr/bin/python3 ] && /usr/bin/python3 -c 'import scipy' 2>/dev/null; then py=/usr/bin/python3; fi
 go build -o /tmp/pvcouple-regen .
-for name in $(/tmp/pvcouple-regen presets | awk '{print $1}'); do
+for name in $(ls presets/builtin/ | sed -n 's/\.yaml$//p'); do
   for circ in held closed; do
     out="testdata/reference/$name.json"
     if [ "$circ" = closed ]; then out="testdata/reference/$name.closed.json"; fi
