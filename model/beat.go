@@ -46,8 +46,8 @@ type Beat struct {
 	// BalloonOnset is where an aortic balloon began to inflate, s; NaN when
 	// it did not inflate in this beat.
 	BalloonOnset float64
-	Valves  ValveTimes
-	Metrics Metrics
+	Valves       ValveTimes
+	Metrics      Metrics
 }
 
 // DefaultSampleInterval is the spacing of a beat's samples, s (1 kHz, a common

@@ -192,7 +192,10 @@ func spec(key, name, unit string, lo, hi float64, meaning string, f func(*Params
 
 func only(c Circulation, s Spec) Spec { s.only, s.onlyIn = true, c; return s }
 
-func device(off float64, hint string, s Spec) Spec { s.Device, s.Off, s.Hint = true, off, hint; return s }
+func device(off float64, hint string, s Spec) Spec {
+	s.Device, s.Off, s.Hint = true, off, hint
+	return s
+}
 
 // DevicesOff returns p with every lesion and support lever at its off value.
 func (p Params) DevicesOff() Params {
