@@ -74,7 +74,7 @@ func TestLoopCSV(t *testing.T) {
 	}
 	// Closed: the compartments' pressures and volumes follow, and the volumes
 	// sum to the same blood volume at every sample (conservation).
-	if got := strings.Join(rows[0], ","); !strings.HasPrefix(got, "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s,p_sa_mmhg,") ||
+	if got := strings.Join(rows[0], ","); !strings.HasPrefix(got, "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s,q_pump_ml_s,p_sa_mmhg,") ||
 		!strings.Contains(got, ",v_sv_ml,") || !strings.Contains(got, ",p_ra_mmhg,") || !strings.Contains(got, ",p_la_mmhg,") {
 		t.Errorf("header %s", got)
 	}
@@ -95,7 +95,7 @@ func TestLoopCSV(t *testing.T) {
 		}
 	}
 	code, held, _ := runCLI(t, "loop", "--circulation", "held")
-	if h, _, _ := strings.Cut(held, "\n"); code != 0 || h != "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s" {
+	if h, _, _ := strings.Cut(held, "\n"); code != 0 || h != "t_s,p_lv_mmhg,v_lv_ml,p_ao_mmhg,q_in_ml_s,q_out_ml_s,q_pump_ml_s" {
 		t.Errorf("held header %s", h)
 	}
 	// 1 kHz over a 70-bpm beat (0.857 s) plus the valve events.

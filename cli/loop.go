@@ -12,7 +12,10 @@ func init() {
 }
 
 // loopColumns are the columns of `pvcouple loop` in every circulation.
-var loopColumns = []string{"t_s", "p_lv_mmhg", "v_lv_ml", "p_ao_mmhg", "q_in_ml_s", "q_out_ml_s"}
+// The valve flows are signed: q_in_ml_s is negative while blood leaks back
+// through the mitral valve, q_out_ml_s while it leaks back through the aortic
+// valve; q_pump_ml_s is the flow of an LV-to-aorta pump (0 when off).
+var loopColumns = []string{"t_s", "p_lv_mmhg", "v_lv_ml", "p_ao_mmhg", "q_in_ml_s", "q_out_ml_s", "q_pump_ml_s"}
 
 // loopTable returns the column names and series of a beat: loopColumns, and
 // in a closed circulation the pressure and volume of every other compartment
@@ -20,7 +23,7 @@ var loopColumns = []string{"t_s", "p_lv_mmhg", "v_lv_ml", "p_ao_mmhg", "q_in_ml_
 // valve flows.
 func loopTable(b *model.Beat) ([]string, [][]float64) {
 	names := append([]string(nil), loopColumns...)
-	series := [][]float64{b.T, b.PLV, b.VLV, b.PAO, b.QIn, b.QOut}
+	series := [][]float64{b.T, b.PLV, b.VLV, b.PAO, b.QIn, b.QOut, b.QPump}
 	if b.Params.Circulation != model.Closed {
 		return names, series
 	}
@@ -39,7 +42,7 @@ func loopTable(b *model.Beat) ([]string, [][]float64) {
 
 func runLoop(env *Env, args []string) error {
 	fs := newFlags(env, "loop", "loop [--preset NAME | --scenario FILE] [--circulation held|closed] [--set KEY=VALUE]... [--format csv|json]",
-		"Prints one steady beat sampled at 1 kHz plus the valve events, from activation onset\nto the start of the next beat. Columns: "+strings.Join(loopColumns, ",")+"; in the closed\ncirculation also p_KEY_mmhg and v_KEY_ml of every compartment (sa systemic arteries,\nsv systemic veins, ra, rv, pa pulmonary arteries, pv pulmonary veins, la) and the\ntricuspid and pulmonary valve flows. The volumes sum to the blood volume at every sample.")
+		"Prints one steady beat sampled at 1 kHz plus the valve events, from activation onset\nto the start of the next beat. Columns: "+strings.Join(loopColumns, ",")+";\nthe valve flows are negative for regurgitant backflow. In the closed circulation also\np_KEY_mmhg and v_KEY_ml of every compartment (sa systemic arteries, sv systemic veins,\nra, rv, pa pulmonary arteries, pv pulmonary veins, la) and the tricuspid and pulmonary\nvalve flows. The volumes sum to the blood volume at every sample.")
 	var sel selection
 	sel.addFlags(fs)
 	format := fs.String("format", "csv", "output `FORMAT`: csv or json")

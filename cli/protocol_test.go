@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -25,7 +26,7 @@ func TestProtocolListAndShow(t *testing.T) {
 			t.Errorf("list lacks %s:\n%s", n, out)
 		}
 	}
-	if !strings.Contains(out, "preload-reduction    25") || !strings.HasPrefix(out, "Built-in protocols: invented by us, labelled so") {
+	if !regexp.MustCompile(`(?m)^preload-reduction +25 +25 `).MatchString(out) || !strings.HasPrefix(out, "Built-in protocols: invented by us, labelled so") {
 		t.Errorf("list should give the beats of each protocol:\n%s", out)
 	}
 	code, out, _ = runCLI(t, "protocol", "show", "preload-reduction")

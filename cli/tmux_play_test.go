@@ -6,6 +6,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"pvcouple/presets"
 )
 
 // TestPlayInTmux plays protocols in the real binary: preload-reduction at
@@ -23,7 +25,14 @@ func TestPlayInTmux(t *testing.T) {
 	p.waitFor("Speed: as fast as it computes.")
 	p.keys("P")
 	p.waitFor("Play a protocol")
-	p.keys("Down", "Down", "Enter")
+	var down []string
+	for _, n := range presets.ProtocolNames() {
+		if n == "preload-reduction" {
+			break
+		}
+		down = append(down, "Down")
+	}
+	p.keys(append(down, "Enter")...)
 	s := p.waitFor("End of preload-reduction, 25 beats: fitted Ees 2.50 mmHg/mL", "beat 25 of 25 · recovery", "fitted to 25 loops")
 	if strings.Contains(p.screen(true), "\x1b[38") {
 		t.Errorf("NO_COLOR: the screen has colour:\n%s", s)

@@ -88,8 +88,9 @@ func TestPlayFlow(t *testing.T) {
 	wait("Speed: as fast as it computes.")
 	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune("P")})
 	wait("Play a protocol")
-	tm.Send(tea.KeyMsg{Type: tea.KeyDown})
-	tm.Send(tea.KeyMsg{Type: tea.KeyDown})
+	for range protocolPosition(t, "preload-reduction") {
+		tm.Send(tea.KeyMsg{Type: tea.KeyDown})
+	}
 	tm.Send(tea.KeyMsg{Type: tea.KeyEnter})
 	wait("End of preload-reduction, 25 beats: fitted Ees")
 	tm.Send(tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(",")})
@@ -102,4 +103,17 @@ func TestPlayFlow(t *testing.T) {
 	if fit := fitRow(t, final.View()); fit[1] != "2.50" {
 		t.Errorf("fitted Ees on screen %q, want 2.50 (the model's)", fit[1])
 	}
+}
+
+// protocolPosition is the place of a built-in protocol in the picker's list,
+// from 0: the number of Down presses that reach it.
+func protocolPosition(tb testing.TB, name string) int {
+	tb.Helper()
+	for i, n := range presets.ProtocolNames() {
+		if n == name {
+			return i
+		}
+	}
+	tb.Fatalf("no built-in protocol %s", name)
+	return 0
 }

@@ -301,7 +301,11 @@ func BenchmarkBeatFrame(b *testing.B) {
 	m := newTestModel(b, "normal", termenv.ANSI256)
 	m.after = func(time.Duration, tea.Msg) tea.Cmd { return nil }
 	press(m, tea.WindowSizeMsg{Width: 120, Height: 40})
-	press(m, typed("P"), tea.KeyMsg{Type: tea.KeyDown}, tea.KeyMsg{Type: tea.KeyDown}, tea.KeyMsg{Type: tea.KeyEnter}, typed(" "))
+	press(m, typed("P"))
+	for range protocolPosition(b, "preload-reduction") {
+		press(m, tea.KeyMsg{Type: tea.KeyDown})
+	}
+	press(m, tea.KeyMsg{Type: tea.KeyEnter}, typed(" "))
 	_ = m.View()
 	for b.Loop() {
 		if m.play.atEnd() {
