@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -91,6 +92,48 @@ func TestDeviceLeverErrors(t *testing.T) {
 		code, _, errs := runCLI(t, "solve", "--set", tc.set)
 		if code == 0 || !strings.Contains(errs, tc.want) {
 			t.Errorf("--set %s: exit %d, %q lacks %q", tc.set, code, errs, tc.want)
+		}
+	}
+}
+
+// The notes of preload-reduction-mr, through the commands a user runs: on a
+// heart with mitral regurgitation the recorded occlusion still gives the
+// ESPVR set (iterated maximal elastance), while the single-beat Ees of Chen
+// et al. reads about half of it, against about three quarters on normal.
+func TestMRPreloadReductionAnalysed(t *testing.T) {
+	for _, tc := range []struct {
+		preset       string
+		ees          float64
+		chenLo, chen float64 // the single-beat reading as a share of Ees
+	}{{"mitral-regurgitation", 2.0, 0.4, 0.6}, {"normal", 2.5, 0.65, 0.85}} {
+		file := filepath.Join(t.TempDir(), "run.csv")
+		if code, _, errs := runCLI(t, "protocol", "run", "preload-reduction-mr", "--preset", tc.preset, "--samples", file); code != 0 {
+			t.Fatalf("%s: exit %d: %s", tc.preset, code, errs)
+		}
+		code, out, errs := runCLI(t, "analyze", file, "--format", "json")
+		if code != 0 {
+			t.Fatalf("%s: analyze: exit %d: %s", tc.preset, code, errs)
+		}
+		var doc struct {
+			ESPVR struct {
+				Ees float64 `json:"ees_mmhg_per_ml"`
+			} `json:"espvr"`
+			SingleBeat struct {
+				Chen struct {
+					Ees float64 `json:"ees_mmhg_per_ml"`
+				} `json:"chen_2001"`
+			} `json:"single_beat"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		share := doc.SingleBeat.Chen.Ees / tc.ees
+		t.Logf("%s: ESPVR Ees %.3f, single-beat %.3f (%.2f of the Ees set)", tc.preset, doc.ESPVR.Ees, doc.SingleBeat.Chen.Ees, share)
+		if math.Abs(doc.ESPVR.Ees/tc.ees-1) > 0.01 {
+			t.Errorf("%s: ESPVR Ees %.3f, set %g", tc.preset, doc.ESPVR.Ees, tc.ees)
+		}
+		if share < tc.chenLo || share > tc.chen {
+			t.Errorf("%s: single-beat Ees %.3f is %.2f of the Ees set, want %g–%g", tc.preset, doc.SingleBeat.Chen.Ees, share, tc.chenLo, tc.chen)
 		}
 	}
 }
