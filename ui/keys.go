@@ -15,6 +15,7 @@ type KeyMap struct {
 	Fit            key.Binding // fit the axes to the loops again
 	Preset         key.Binding // pick a built-in preset
 	Circulation    key.Binding // switch between the held and the closed circulation
+	Devices        key.Binding // show the valve lesion and support levers, and go to them or back
 	Save, Open     key.Binding // save and load a scenario file
 	NextView       key.Binding // switch views
 	GoView         key.Binding // go to a view by its number
@@ -55,6 +56,7 @@ func DefaultKeyMap() KeyMap {
 		Fit:         key.NewBinding(key.WithKeys("z"), key.WithHelp("z", "refit axes")),
 		Preset:      key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "preset")),
 		Circulation: key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "held/closed circulation")),
+		Devices:     key.NewBinding(key.WithKeys("d"), key.WithHelp("d", "lesion/support levers")),
 		Save:        key.NewBinding(key.WithKeys("s"), key.WithHelp("s", "save")),
 		Open:        key.NewBinding(key.WithKeys("o"), key.WithHelp("o", "open")),
 		NextView:    key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next view")),
@@ -96,7 +98,7 @@ func (k KeyMap) PlayHelp() []key.Binding {
 func (k KeyMap) FullHelp() [][]key.Binding {
 	return [][]key.Binding{
 		{k.Up, k.Down, k.BigUp, k.BigDown, k.Prev, k.Next},
-		{k.Pin, k.Revert, k.Undo, k.Redo, k.Fit, k.Circulation},
+		{k.Pin, k.Revert, k.Undo, k.Redo, k.Fit, k.Circulation, k.Devices},
 		{k.Protocol, k.PlayPause, k.StepFwd, k.StepBack, k.Faster, k.Slower, k.Restart, k.Stop},
 		{k.Preset, k.Save, k.Open, k.NextView, k.GoView},
 		{k.Help, k.Cancel, k.Confirm, k.Quit},

@@ -32,7 +32,7 @@ func computeLayout(w, h int) layout {
 		l.sideW = sideWide
 	}
 	l.mainW = w - l.sideW - 1
-	l.readH = 1 + len(readoutKeys) // room for a closed circulation's rows
+	l.readH = 1 + baseReadouts() // room for a closed circulation's rows; lesions and devices take the levers' (render.go)
 	if w >= 100 && body >= l.readH+1+leverColumnLines() {
 		l.leverH = leverColumnLines()
 		l.mainH = body

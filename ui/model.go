@@ -42,7 +42,10 @@ type Model struct {
 	cur      int // index of the view on screen
 	readouts *readoutPanel
 	levers   *leverPanel
-	sel      int // index of the selected lever in model.Levers
+	sel      int // index of the selected lever in leverList()
+	// showDevices lists the lesion and support levers even while all are
+	// off (devices.go).
+	showDevices bool
 
 	solver     *model.Solver // the worker's: used by one solve at a time
 	syncSolver *model.Solver // the UI goroutine's, for loading scenarios

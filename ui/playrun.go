@@ -25,6 +25,8 @@ type playRun struct {
 	err   error               // the failure of a beat; no more beats after it
 	box   bounds              // of the starting loop and the beats so far, with (min(0, V0), 0)
 
+	groups deviceGroup // the lesion and device readouts of the run's beats
+
 	espvr bool   // the protocol leaves the ESPVR alone, so a fit makes sense
 	why   string // why not, when !espvr
 
@@ -49,6 +51,10 @@ func newPlayRun(id int, pr *presets.Protocol, p model.Params) (*playRun, error) 
 	r.box.add(r.start.VLV, r.start.PLV)
 	r.box.addPoint(math.Min(0, r.start.Params.V0), 0)
 	r.espvr, r.why = pr.ESPVRFixed()
+	r.groups = deviceGroups(&r.start.Params)
+	for i := range plan.Params {
+		r.groups |= deviceGroups(&plan.Params[i])
+	}
 	return r, nil
 }
 

@@ -142,7 +142,7 @@ func (v *playView) readouts(*state) (readoutSource, bool) {
 		return readoutSource{}, false
 	}
 	return readoutSource{now: &v.beat().Metrics, base: &v.run.start.Metrics, nowHead: "beat", baseHead: "start",
-		fit: v.run.fitReadout(v.cur)}, true
+		fit: v.run.fitReadout(v.cur), groups: v.run.groups}, true
 }
 
 // Render implements view.
@@ -342,12 +342,17 @@ func (v *playView) renderIntro(circ model.Circulation) string {
 		lines = append(lines, " "+s.Key.Render(l))
 	}
 	lines = append(lines, "")
-	for _, n := range presets.ProtocolNames() {
+	names := presets.ProtocolNames()
+	width := 20
+	for _, n := range names {
+		width = max(width, len(n)+1)
+	}
+	for _, n := range names {
 		pr, err := presets.GetProtocol(n)
 		if err != nil {
 			continue
 		}
-		lines = append(lines, fmt.Sprintf("  %-20s", n)+s.Dim.Render(fmt.Sprintf("%3d beats", pr.TotalBeats(circ))))
+		lines = append(lines, fmt.Sprintf("  %-*s", width, n)+s.Dim.Render(fmt.Sprintf("%3d beats", pr.TotalBeats(circ))))
 	}
 	lines = append(lines, "")
 	for _, l := range wrap("A protocol changes the levers beat by beat. Its loops are drawn as a family " +

@@ -69,6 +69,10 @@ func (m *Model) protocolsKey(msg tea.KeyMsg) tea.Cmd {
 // renderProtocols draws the protocol list as a framed box, the file entry
 // set apart.
 func (m *Model) renderProtocols() string {
-	return m.picker.render(m.styles, "Play a protocol", "(invented, labelled so; from the levers now)", 20, m.w,
+	width := 20 // room for the names, the longest whole
+	for _, n := range m.picker.names {
+		width = max(width, len([]rune(n))+2)
+	}
+	return m.picker.render(m.styles, "Play a protocol", "(invented, labelled so; from the levers now)", width, m.w,
 		len(m.picker.names)-1, "play")
 }

@@ -14,25 +14,44 @@ import (
 type readout struct {
 	key      string
 	decimals int
-	closed   bool // shown only for a closed circulation's beats
+	closed   bool        // shown only for a closed circulation's beats
+	group    deviceGroup // shown only for beats with these lesions or devices; 0 always
 	spec     model.MetricSpec
 	normal   model.NormalRange
 	hasRange bool
 }
 
 // readoutKeys are the metrics of the panel, in groups: coupling, volumes,
-// pressures and flow, energetics, and the rest of a closed circulation
+// pressures and flow, the valve lesions and support devices on screen (only
+// while there are some), energetics, and the rest of a closed circulation
 // (last, so a small window cuts them first).
 var readoutKeys = []struct {
 	key      string
 	decimals int
 	closed   bool
+	group    deviceGroup
 }{
-	{"ea_mmhg_per_ml", 2, false}, {"ees_mmhg_per_ml", 2, false}, {"ea_ees_ratio", 2, false},
-	{"sv_ml", 1, false}, {"ef_pct", 1, false}, {"edv_ml", 1, false}, {"esv_ml", 1, false},
-	{"esp_mmhg", 1, false}, {"edp_mmhg", 1, false}, {"map_mmhg", 1, false}, {"co_l_per_min", 2, false},
-	{"sw_mmhg_ml", 0, false}, {"pva_mmhg_ml", 0, false}, {"efficiency", 2, false},
-	{"lap_mean_mmhg", 1, true}, {"cvp_mmhg", 1, true}, {"pap_mean_mmhg", 1, true},
+	{"ea_mmhg_per_ml", 2, false, 0}, {"ees_mmhg_per_ml", 2, false, 0}, {"ea_ees_ratio", 2, false, 0},
+	{"sv_ml", 1, false, 0}, {"ef_pct", 1, false, 0}, {"edv_ml", 1, false, 0}, {"esv_ml", 1, false, 0},
+	{"esp_mmhg", 1, false, 0}, {"edp_mmhg", 1, false, 0}, {"map_mmhg", 1, false, 0}, {"co_l_per_min", 2, false, 0},
+	{"av_mean_gradient_mmhg", 1, false, groupLesion}, {"mv_mean_gradient_mmhg", 1, false, groupLesion},
+	{"regurgitant_fraction_pct", 1, false, groupLesion}, {"forward_sv_ml", 1, false, groupLesion},
+	{"pump_co_l_per_min", 2, false, groupPump}, {"total_co_l_per_min", 2, false, groupPump | groupLesion},
+	{"av_open_ms", 0, false, groupPump},
+	{"diastolic_augmentation_mmhg", 1, false, groupBalloon}, {"aortic_edp_mmhg", 1, false, groupBalloon},
+	{"sw_mmhg_ml", 0, false, 0}, {"pva_mmhg_ml", 0, false, 0}, {"efficiency", 2, false, 0},
+	{"lap_mean_mmhg", 1, true, 0}, {"cvp_mmhg", 1, true, 0}, {"pap_mean_mmhg", 1, true, 0},
+}
+
+// baseReadouts is the number of readouts shown whatever the devices.
+func baseReadouts() int {
+	n := 0
+	for _, k := range readoutKeys {
+		if k.group == 0 {
+			n++
+		}
+	}
+	return n
 }
 
 // readouts returns the panel's rows.
@@ -44,7 +63,7 @@ func readouts() []readout {
 			panic("ui: readout " + k.key + " names no metric") // a programming error, caught by the tests
 		}
 		nr, has := model.NormalRangeOf(k.key)
-		rs = append(rs, readout{key: k.key, decimals: k.decimals, closed: k.closed, spec: spec, normal: nr, hasRange: has})
+		rs = append(rs, readout{key: k.key, decimals: k.decimals, closed: k.closed, group: k.group, spec: spec, normal: nr, hasRange: has})
 	}
 	return rs
 }
@@ -76,6 +95,19 @@ type readoutSource struct {
 	// recording opened.
 	rec *recording
 	fit fitReadout
+	// groups are the lesion and device readouts to show (devices.go).
+	groups deviceGroup
+}
+
+// deviceRows is the number of lesion and device readouts src shows.
+func (p *readoutPanel) deviceRows(src readoutSource) int {
+	n := 0
+	for _, r := range p.rows {
+		if r.group != 0 && r.group&src.groups != 0 {
+			n++
+		}
+	}
+	return n
 }
 
 // closed reports whether either beat of src is of a closed circulation
@@ -91,6 +123,10 @@ func steadySource(st *state) readoutSource {
 	src := readoutSource{nowHead: "now", baseHead: refName(st), rec: st.rec, base: reference(st)}
 	if st.shown != nil {
 		src.now = &st.shown.Metrics
+		src.groups = deviceGroups(&st.shown.Params)
+	}
+	if st.base != nil && st.rec == nil {
+		src.groups |= deviceGroups(&st.base.Params)
 	}
 	return src
 }
@@ -163,7 +199,7 @@ func (p *readoutPanel) Render(src readoutSource) string {
 	lines = append(lines, s.Heading.Render(padRight(head, p.w)))
 	closed := src.closed()
 	for _, r := range p.rows {
-		if r.closed && !closed {
+		if r.closed && !closed || r.group != 0 && r.group&src.groups == 0 {
 			continue
 		}
 		lines = append(lines, p.row(r, src, c))

@@ -103,9 +103,19 @@ func (m *Model) renderBody() string {
 			src = s
 		}
 	}
+	levers, sel := m.leverList(), m.sel
+	if sel >= len(levers) {
+		sel = 0 // as lever() will take it
+	}
+	if !l.strip {
+		// Lesion and device readouts take lines from the lever panel.
+		k := min(m.readouts.deviceRows(src), max(l.mainH-l.readH-1-leverColumnLines(), 0))
+		m.readouts.SetSize(l.sideW, l.readH+k, max(l.mainH-l.readH-k-1-l.leverH, 0))
+		m.levers.SetSize(l.sideW, l.mainH-l.readH-k-1, false)
+	}
 	side := m.readouts.Render(src)
 	if !l.strip {
-		side += "\n" + strings.Repeat(" ", l.sideW) + "\n" + m.levers.Render(&m.st, m.sel)
+		side += "\n" + strings.Repeat(" ", l.sideW) + "\n" + m.levers.Render(&m.st, levers, sel)
 	}
 	sideLines := strings.Split(side, "\n")
 	var b strings.Builder
@@ -119,7 +129,7 @@ func (m *Model) renderBody() string {
 	}
 	if l.strip {
 		b.WriteByte('\n')
-		b.WriteString(m.levers.Render(&m.st, m.sel))
+		b.WriteString(m.levers.Render(&m.st, levers, sel))
 	}
 	return b.String()
 }

@@ -28,6 +28,8 @@ type Styles struct {
 	Ea       lipgloss.Style
 	Aortic   lipgloss.Style // aortic pressure trace
 	Fit      lipgloss.Style // the ESPVR fitted to a protocol's loops, and its points
+	Pump     lipgloss.Style // an LV-to-aorta pump's flow trace
+	Mitral   lipgloss.Style // mitral flow trace
 
 	Selected lipgloss.Style // the selected lever
 	OutHigh  lipgloss.Style // a readout above its normal range (with ▲)
@@ -80,6 +82,8 @@ func NewStyles(r *lipgloss.Renderer) *Styles {
 		Ea:        n().Foreground(orange),
 		Aortic:    n().Foreground(teal),
 		Fit:       n().Foreground(purple),
+		Pump:      n().Foreground(orange),
+		Mitral:    n().Foreground(blue),
 		Selected:  n().Bold(true).Foreground(accent),
 		OutHigh:   n().Bold(true).Foreground(red),
 		OutLow:    n().Bold(true).Foreground(cyan),

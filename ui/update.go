@@ -103,6 +103,8 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 		m.openPicker()
 	case key.Matches(msg, k.Circulation):
 		return m.switchCirculation()
+	case key.Matches(msg, k.Devices):
+		m.toggleDevices()
 	case key.Matches(msg, k.Protocol):
 		m.openProtocols()
 	case key.Matches(msg, k.Save):
@@ -140,9 +142,9 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 
 // selectLever selects lever i, wrapping around.
 func (m *Model) selectLever(i int) {
-	n := len(model.Levers)
+	n := len(m.leverList())
 	m.sel = (i%n + n) % n
-	l := model.Levers[m.sel]
+	l := m.lever()
 	s := l.Spec()
 	m.setStatus(fmt.Sprintf("%s: %s, %s (%s).", l.Name, s.Meaning, l.Format(s.Get(m.st.target))+" "+s.Unit, s.RangeText()))
 }
@@ -167,7 +169,7 @@ func (m *Model) showView(i int) {
 // on screen and is a fluid challenge: the volume is found that gives the new
 // mean LAP. The other levers act at a fixed blood volume.
 func (m *Model) nudge(dir int, big bool) tea.Cmd {
-	l := model.Levers[m.sel]
+	l := m.lever()
 	s := l.Spec()
 	fill := l.Key == "filling_pressure_mmhg" && m.st.target.Circulation == model.Closed
 	old := s.Get(m.st.target)
