@@ -91,7 +91,12 @@ func (p *leverPanel) Render(st *state, levers []model.Lever, sel int) string {
 			need += 1 + g.n
 		}
 		if need > p.h {
-			groups = groups[cur : cur+1] // no room for both: the selected group
+			// No room for both: the selected group, saying where the other is.
+			g := groups[cur]
+			if cur == 0 {
+				g.heading = "Levers · d: lesions"
+			}
+			groups = []leverGroup{g}
 		}
 		for _, g := range groups {
 			head := fmt.Sprintf(" %-20s%7s  %-10s%7s", g.heading, "now", "unit", "base")

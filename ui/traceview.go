@@ -12,7 +12,8 @@ import (
 // above, LV volume below, with the baseline beat dotted beneath. Where a
 // valve leaks or a pump runs (on screen or in the baseline), a third plot
 // shows the flows: the aortic and mitral valves', negative for backflow,
-// and the pump's. The plots share the time axis, from the start of
+// and the pump's; in a window too low for three, it takes the volume's
+// place. The plots share the time axis, from the start of
 // activation to the end of the longer beat.
 type traceView struct {
 	s               *Styles
@@ -50,12 +51,19 @@ func (v *traceView) SetSize(w, h int) {
 // split shares the height between the plots.
 func (v *traceView) split() {
 	w, h := v.w, v.h
-	if v.flows {
+	switch {
+	case v.flows && h/4 >= minPlotH+2:
 		hp, hv := h/2, h/4
 		v.pres.SetSize(w, hp)
 		v.vol.SetSize(w, hv)
 		v.flow.SetSize(w, h-hp-hv)
-	} else {
+	case v.flows:
+		// Too low for three plots: the flows take the volume's place.
+		hp := h * 3 / 5
+		v.pres.SetSize(w, hp)
+		v.vol.SetSize(w, 0)
+		v.flow.SetSize(w, h-hp)
+	default:
 		hp := h * 3 / 5
 		v.pres.SetSize(w, hp)
 		v.vol.SetSize(w, h-hp)
@@ -140,7 +148,10 @@ func (v *traceView) Render(st *state) string {
 		i := argmax(c.PLV)
 		pl = append(pl, label{X: ms[0][i], Y: c.PLV[i], Text: "LV", Style: v.s.Loop, At: []offset{{1, -1}, {-3, -1}, {2, 0}, {0, -2}}})
 	}
-	v.cache = v.pres.Render(v.fp, ps, pl) + "\n" + v.vol.Render(v.fv, vs, nil)
+	v.cache = v.pres.Render(v.fp, ps, pl)
+	if v.vol.h > 0 {
+		v.cache += "\n" + v.vol.Render(v.fv, vs, nil)
+	}
 	if v.flows {
 		v.cache += "\n" + v.flowPlot(st, ms)
 	}
