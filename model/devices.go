@@ -76,7 +76,7 @@ func (s *Solver) diastoleStart() float64 {
 // s.cycleStart.
 func (s *Solver) cycle(x State) (State, float64, error) {
 	s.cycleStart = x
-	if !s.c.bal.on() || s.c.bal.ratio != 2 {
+	if s.cycleBeats() == 1 {
 		return s.integrate(x)
 	}
 	x.BalloonRested = false
@@ -87,4 +87,12 @@ func (s *Solver) cycle(x State) (State, float64, error) {
 	s.cycleStart = mid
 	end, lap2, err := s.integrate(mid)
 	return end, 0.5 * (lap1 + lap2), err
+}
+
+// cycleBeats is the number of beats in one period of the steady state.
+func (s *Solver) cycleBeats() int {
+	if s.c.bal.on() && s.c.bal.ratio == 2 {
+		return 2
+	}
+	return 1
 }

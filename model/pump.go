@@ -29,9 +29,6 @@ func (p *Params) pumpOf() pump {
 	return pump{q0: p.PumpFlow * mlPerSPerLPerMin, h0: p.PumpHead}
 }
 
-// on reports whether the pump turns.
-func (q *pump) on() bool { return q.q0 > 0 }
-
 // flow returns the pump's flow (mL/s) from inlet pressure pin to outlet
 // pressure pout (mmHg).
 func (q *pump) flow(pin, pout float64) float64 {

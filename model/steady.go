@@ -184,7 +184,7 @@ func (sh *shooter) eval(z, r []float64) (State, error) {
 	if sh.beats >= MaxSteadyBeats {
 		return State{}, errBeatCap
 	}
-	sh.beats++
+	sh.beats += sh.s.cycleBeats()
 	x := sh.state(z)
 	end, lap, err := sh.s.cycle(x)
 	if err != nil {
