@@ -162,24 +162,10 @@ func (c *circuit) pressures(t float64, y []float64) (*[NumCompartments]float64, 
 		return &c.cacheP, c.cacheE
 	}
 	e, _ := c.table.at(t)
-	p := &c.cacheP
-	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
-	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
-	if c.closed {
-		ea := c.atr.E(t)
-		p[SystemicVeins] = c.sv.pressure(y[SystemicVeins])
-		p[RightAtrium] = c.atria.pressure(ea, y[RightAtrium])
-		p[RightVentricle] = c.rv.pressure(e, y[RightVentricle])
-		p[PulmonaryArteries] = c.pa.pressure(y[PulmonaryArteries])
-		p[PulmonaryVeins] = c.pv.pressure(y[PulmonaryVeins])
-		p[LeftAtrium] = c.atria.pressure(ea, y[LeftAtrium])
-	} else {
-		p[SystemicVeins] = c.pv0
-		p[LeftAtrium] = c.fill
-	}
+	c.pressuresInto(&c.cacheP, t, e, y)
 	c.cacheT, c.cacheE = t, e
 	copy(c.cacheY[:], y)
-	return p, e
+	return &c.cacheP, e
 }
 
 func (c *circuit) sameY(y []float64) bool {

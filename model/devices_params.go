@@ -10,16 +10,17 @@ func (p Params) validateDevices() error {
 		return &ParamError{"balloon_ratio", p.BalloonRatio,
 			"allowed 1 (the balloon inflates every beat, 1:1) or 2 (every other beat, 1:2) beats"}
 	}
-	for _, v := range []struct{ reg, open string }{
-		{"aortic_regurgitant_area_cm2", "aortic_valve_area_cm2"},
-		{"mitral_regurgitant_area_cm2", "mitral_valve_area_cm2"},
+	for _, v := range [2]struct {
+		reg, open       string
+		regArea, opened float64
+	}{
+		{"aortic_regurgitant_area_cm2", "aortic_valve_area_cm2", p.AorticRegurgitantArea, p.AorticValveArea},
+		{"mitral_regurgitant_area_cm2", "mitral_valve_area_cm2", p.MitralRegurgitantArea, p.MitralValveArea},
 	} {
-		r, _ := SpecByKey(v.reg)
-		o, _ := SpecByKey(v.open)
-		if reg, open := r.Get(p), o.Get(p); reg > 0 && !(reg < open) {
-			return &ParamError{v.reg, reg, fmt.Sprintf(
+		if v.regArea > 0 && !(v.regArea < v.opened) {
+			return &ParamError{v.reg, v.regArea, fmt.Sprintf(
 				"with %s = %g cm² the regurgitant orifice must be smaller than the open valve: allowed 0 to below %g cm²",
-				v.open, open, open)}
+				v.open, v.opened, v.opened)}
 		}
 	}
 	return nil

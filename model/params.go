@@ -289,7 +289,7 @@ func (p Params) Validate() error {
 		if !s.ActsIn(p.Circulation) {
 			continue
 		}
-		if err := s.Check(s.Get(p)); err != nil {
+		if err := s.Check(*s.field(&p)); err != nil { // one copy of p, not one per parameter
 			return err
 		}
 	}

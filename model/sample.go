@@ -108,6 +108,13 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 // given, bypassing the cache.
 func (c *circuit) pressuresAt(t, e float64, y []float64) [NumCompartments]float64 {
 	var p [NumCompartments]float64
+	c.pressuresInto(&p, t, e, y)
+	return p
+}
+
+// pressuresInto writes the pressures at (t, y), with the ventricular
+// activation e given, into p.
+func (c *circuit) pressuresInto(p *[NumCompartments]float64, t, e float64, y []float64) {
 	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
 	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
 	if c.closed {
@@ -122,7 +129,6 @@ func (c *circuit) pressuresAt(t, e float64, y []float64) [NumCompartments]float6
 		p[SystemicVeins] = c.pv0
 		p[LeftAtrium] = c.fill
 	}
-	return p
 }
 
 // openFlowsAt returns the flows at the pressures p with every valve open

@@ -23,6 +23,8 @@ type valve struct {
 // for regurgitant backflow.
 func (v *valve) flow(dp float64) float64 {
 	switch {
+	case v.open && v.k == 0:
+		return dp / v.r
 	case v.open:
 		return orificeFlow(dp, v.r, v.k)
 	case v.leak:
