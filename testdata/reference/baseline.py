@@ -76,9 +76,10 @@ GO_RTOL = {"loose": 1e-5, "tight": 1e-7}
 LOOSE_BELOW = 0.05
 ATOL_PER_RTOL = 10.0  # pvcouple's ratio: atol 1e-6 at rtol 1e-7
 
-# SciPy's rtol at each level, chosen with --accuracy (see the module comment).
-METHOD = "DOP853"
-RTOL = {"held": {"loose": 1e-5, "tight": 1e-7}, "closed": {"loose": 1e-5, "tight": 1e-7}}
+# SciPy's method and rtol at each level, chosen with --accuracy (see the
+# module comment).
+TOLS = {"held": {"loose": ("RK45", 3e-6), "tight": ("RK45", 1e-7)},
+        "closed": {"loose": ("RK45", 3e-6), "tight": ("DOP853", 3e-7)}}
 
 
 class BeatError(RuntimeError):
@@ -268,10 +269,10 @@ class Model:
         return x
 
 
-def steady_state(m, method, rtols, dense=True):
+def steady_state(m, tols, dense=True):
     """Newton-Broyden shooting on the beat map from a cold start, as
-    model.Solver.SteadyState; rtols maps pvcouple's tolerance levels ("loose",
-    "tight") to SciPy's rtol."""
+    model.Solver.SteadyState; tols maps pvcouple's tolerance levels ("loose",
+    "tight") to SciPy's (method, rtol)."""
     beats, level = 0, "loose"
 
     def residual(z):
@@ -279,7 +280,7 @@ def steady_state(m, method, rtols, dense=True):
         if beats >= MAX_BEATS:
             raise RuntimeError("beat cap reached")
         beats += 1
-        rtol = rtols[level]
+        method, rtol = tols[level]
         end, lap, segments = m.beat(m.state(z), method, rtol, ATOL_PER_RTOL * rtol, dense)
         return np.array([end[c] for c in m.unknowns]) - z, (m.state(z), end, lap, segments)
 
@@ -363,13 +364,13 @@ def sample(m, last, dt=1e-3):
             "sbp_mmhg": float(pao.max()), "dbp_mmhg": float(pao.min()), "lap_mean_mmhg": lap}
 
 
-def solve(doc, method, rtols, dense=False):
+def solve(doc, tols, dense=False):
     """One cold solve and the final beat's samples. Without dense output on
     every beat, the final beat (a tight one) is integrated once more with it."""
     m = Model(doc["circulation"], doc["params"])
-    last, beats, res = steady_state(m, method, rtols, dense)
+    last, beats, res = steady_state(m, tols, dense)
     if not dense:
-        rtol = rtols["tight"]
+        method, rtol = tols["tight"]
         end, lap, segments = m.beat(last[0], method, rtol, ATOL_PER_RTOL * rtol, True)
         last = (last[0], end, lap, segments)
     return sample(m, last), beats, res
@@ -413,14 +414,21 @@ def accuracy(doc, go_rtol):
     return rows
 
 
+def method_rtol(text):
+    """METHOD:RTOL of a command-line option."""
+    method, _, rtol = text.partition(":")
+    if method not in ("RK45", "DOP853", "RK23") or not rtol:
+        raise argparse.ArgumentTypeError("want METHOD:RTOL with METHOD RK45, DOP853 or RK23, got %r" % text)
+    return method, float(rtol)
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     ap.add_argument("--repeat", type=int, default=5, help="cold solves to time (median reported)")
-    ap.add_argument("--method", default=METHOD)
-    ap.add_argument("--rtol-loose", type=float, help="SciPy's rtol for pvcouple's loose beats; default: %s"
-                    % {c: r["loose"] for c, r in RTOL.items()})
-    ap.add_argument("--rtol-tight", type=float, help="SciPy's rtol for pvcouple's tight beats; default: %s"
-                    % {c: r["tight"] for c, r in RTOL.items()})
+    for level in ("loose", "tight"):
+        ap.add_argument("--" + level, type=method_rtol, metavar="METHOD:RTOL",
+                        help="SciPy's method and rtol for pvcouple's %s beats (default: %s)" % (
+                            level, ", ".join("%s:%g %s" % (t[level] + (c,)) for c, t in TOLS.items())))
     ap.add_argument("--accuracy", action="store_true", help="print beat-map errors instead of timing")
     ap.add_argument("--go-rtol", type=float, default=GO_RTOL["tight"],
                     help="with --accuracy: the rtol pvcouple's input beat was integrated at (a label)")
@@ -433,18 +441,18 @@ def main():
         for row in accuracy(doc, args.go_rtol):
             print("%-8s rtol %-6g beat-map error %.2e" % (row["method"], row["rtol"], row["error"]))
         return
-    rtols = dict(RTOL[doc["circulation"]])
-    if args.rtol_loose is not None:
-        rtols["loose"] = args.rtol_loose
-    if args.rtol_tight is not None:
-        rtols["tight"] = args.rtol_tight
+    tols = dict(TOLS[doc["circulation"]])
+    for level in ("loose", "tight"):
+        if getattr(args, level) is not None:
+            tols[level] = getattr(args, level)
     times = []
     for _ in range(args.repeat):
         clock = time.perf_counter()
-        metrics, beats, res = solve(doc, args.method, rtols, args.dense_every_beat)
+        metrics, beats, res = solve(doc, tols, args.dense_every_beat)
         times.append(1000 * (time.perf_counter() - clock))
-    out = {"circulation": doc["circulation"], "method": args.method, "rtol": rtols,
-           "atol": {k: ATOL_PER_RTOL * v for k, v in rtols.items()}, "dense_every_beat": args.dense_every_beat,
+    out = {"circulation": doc["circulation"],
+           "levels": {k: {"method": m, "rtol": r, "atol": ATOL_PER_RTOL * r} for k, (m, r) in tols.items()},
+           "dense_every_beat": args.dense_every_beat,
            "median_ms": statistics.median(times), "times_ms": times, "beats": beats, "residual": res,
            "metrics": metrics}
     json.dump(out, sys.stdout, indent=2)
