@@ -272,7 +272,8 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	var z0 []float64 // the warm start's unknowns
 	changedKey, changedBy := "", 0.0
 	predicted := false
-	if warm.Valid() && warm.circ == p.Circulation {
+	warmStart := warm.Valid() && warm.circ == p.Circulation
+	if warmStart {
 		sv := p.StressedVolume
 		if calibrate && warm.volume > 0 {
 			sv = warm.volume // the volume is an unknown: start from the last one found
@@ -298,7 +299,7 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	switch {
 	case predicted:
 		sh.setTol(relTol)
-	case warm.Valid():
+	case warmStart:
 		sh.setTol(warmTol)
 	default:
 		sh.setTol(looseTol)
@@ -417,7 +418,7 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 		for i := range z {
 			w.sens[i] = (z[i] - z0[i]) / changedBy
 		}
-	} else if warm.Valid() && changedKey == "" {
+	} else if warmStart && changedKey == "" {
 		w.sensKey, w.sens = warm.sensKey, warm.sens
 	}
 	return &Steady{Beat: b, Beats: sh.beats, Residual: res, Warm: w}, nil
