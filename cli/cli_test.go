@@ -144,6 +144,14 @@ func TestBadInput(t *testing.T) {
 	outOfRange := filepath.Join(dir, "range.yaml")
 	os.WriteFile(outOfRange, []byte("version: 1\nbase: normal\nparams:\n  ees_mmhg_per_ml: 40\n"), 0o644)
 	cases := []refusal{
+		// Impossible hearts from in-range levers: refused, the levers named, in both circulations.
+		{[]string{"solve", "--circulation", "held", "--set", "v0_ml=-30", "--set", "filling_pressure_mmhg=1"}, 1,
+			[]string{"no physiological beat", "-15.9 mL", "v0_ml = -30 mL", "filling_pressure_mmhg = 1 mmHg"}},
+		{[]string{"solve", "--set", "v0_ml=-30", "--set", "filling_pressure_mmhg=1"}, 1, []string{"no physiological beat", "v0_ml = -30 mL", "stressed_volume_ml"}},
+		{[]string{"loop", "--circulation", "held", "--set", "v0_ml=-30", "--set", "filling_pressure_mmhg=1"}, 1, []string{"no physiological beat"}},
+		{[]string{"solve", "--circulation", "sideways"}, 2, []string{"--circulation", "held", "closed"}},
+		{[]string{"solve", "--circulation", "held", "--set", "caval_occlusion_pct=50"}, 2, []string{"caval_occlusion_pct", "acts only in the closed circulation", "--circulation closed"}},
+		{[]string{"solve", "--set", "filling_pressure_mmhg=12", "--set", "stressed_volume_ml=1500"}, 2, []string{"give one"}},
 		{[]string{"solve", "--set", "hr=80"}, 2, []string{"hr", "unknown parameter", "heart_rate_bpm"}},
 		{[]string{"solve", "--set", "heart_rate_bpm=fast"}, 2, []string{"heart_rate_bpm", `"fast" is not a number`, "30 to 180 bpm"}},
 		{[]string{"solve", "--set", "heart_rate_bpm=NaN"}, 2, []string{"heart_rate_bpm", "not a finite number", "bpm"}},

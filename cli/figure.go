@@ -118,13 +118,19 @@ func runFigure(env *Env, args []string) error {
 }
 
 // figureBaseline returns the baseline parameters and their name: those of the
-// --baseline scenario file, else the scenario's own baseline, else the
-// scenario without the --set changes.
+// --baseline scenario file (in the --circulation asked for, if any), else the
+// scenario's own baseline, else the scenario without the --set changes.
 func figureBaseline(sel *selection, sc *presets.Scenario, file string) (model.Params, string, error) {
 	if file != "" {
 		b, err := presets.LoadScenario(file)
 		if err != nil {
 			return model.Params{}, "", fmt.Errorf("--baseline: %w", err)
+		}
+		// --circulation moves the baseline too, so both loops run in the one asked for.
+		if sel.circulation != "" {
+			if err := b.SetCirculation(sc.Params.Circulation); err != nil {
+				return model.Params{}, "", fmt.Errorf("--baseline: %w", err)
+			}
 		}
 		return b.Params, "scenario " + b.Name + " (" + safetext.Line(filepath.Base(file)) + ")", nil
 	}

@@ -25,17 +25,29 @@ const protocolAbout = `A protocol is a YAML file of labelled steps; the levers c
     - label: baseline
       hold: 5                                # leave the levers alone for 5 beats
     - label: occlusion
+      circulation: held                      # this step runs in a held circulation only
       ramp:
         filling_pressure_mmhg: {factor: 0.4} # in equal parts to 40 % of the value at the
       beats: 12                              # step's start, reached on the 12th beat
+    - label: caval occlusion
+      circulation: closed                    # and this one in a closed circulation only
+      set: {caval_occlusion_pct: 70}         # jump at once; keep for 'beats' (default 1)
+      beats: 12
     - label: pressor
-      scale: {resistance_mmhg_s_per_ml: 1.5} # multiply at once; keep for 'beats' (default 1)
+      scale: {resistance_mmhg_s_per_ml: 1.5} # multiply at once; both circulations
     - label: release
-      set: {filling_pressure_mmhg: initial}  # jump at once; keep for 'beats' (default 1)
+      circulation: held
+      set: {filling_pressure_mmhg: initial}
+      beats: 5
+    - label: release
+      circulation: closed
+      set: {caval_occlusion_pct: initial}
       beats: 5
 
 A set or ramp target is a value in the key's unit or ` + "`initial`" + ` (its value before the
-protocol); a ramp also takes {factor: F}. At most 500 beats in all.
+protocol); a ramp also takes {factor: F}. At most 500 beats in all. A closed run never sets
+the filling pressure (the blood volume sets preload: caval_occlusion_pct, stressed_volume_ml),
+and no step may move a lever of the other circulation.
 Start from a built-in: pvcouple protocol show preload-reduction > my-protocol.yaml`
 
 func runProtocol(env *Env, args []string) error {

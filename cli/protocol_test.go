@@ -39,13 +39,22 @@ func TestProtocolListAndShow(t *testing.T) {
 		t.Errorf("protocol --help: exit %d\n%s", code, out)
 	}
 	// The example in the help is a protocol file as it stands.
-	i, j := strings.Index(out, "  version: 1"), strings.Index(out, "      beats: 5\n")
+	i, j := strings.Index(out, "  version: 1"), strings.LastIndex(out, "      beats: 5\n")
 	if i < 0 || j < i {
 		t.Fatalf("help has no example protocol:\n%s", out)
 	}
 	pr, err := presets.ParseProtocol([]byte(out[i:j+len("      beats: 5\n")]), "help")
-	if err != nil || len(pr.Steps) != 4 || pr.TotalBeats(model.Held) != 23 {
-		t.Errorf("the help's example protocol: %v, %+v", err, pr)
+	if err != nil || len(pr.Steps) != 6 || pr.TotalBeats(model.Held) != 23 || pr.TotalBeats(model.Closed) != 23 {
+		t.Fatalf("the help's example protocol: %v, %+v", err, pr)
+	}
+	for _, c := range []model.Circulation{model.Held, model.Closed} {
+		sc, _ := presets.Get("normal")
+		if err := sc.SetCirculation(c); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := pr.Expand(sc.Params); err != nil {
+			t.Errorf("the help's example protocol in the %s circulation: %v", c, err)
+		}
 	}
 }
 

@@ -216,3 +216,25 @@ func TestProgressBar(t *testing.T) {
 		t.Error("bar on a buffer")
 	}
 }
+
+// Points no heart could give (a ventricle below zero volume from a negative
+// V0 and a low filling) are reported invalid with the levers named, never ok.
+func TestSweepRefusesImpossibleHearts(t *testing.T) {
+	code, out, errs := runCLI(t, "sweep", "--circulation", "held", "--set", "filling_pressure_mmhg=1", "--vary", "v0_ml=-30:0:4")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	rows, _ := csv.NewReader(strings.NewReader(out)).ReadAll()
+	for _, r := range rows[1:] {
+		ef, _ := strconv.ParseFloat(r[6], 64)
+		switch {
+		case r[1] == "ok" && !(ef > 0 && ef <= 100):
+			t.Errorf("V0 %s: EF %s reported ok", r[0], r[6])
+		case r[1] == "invalid" && !strings.Contains(r[len(r)-1], "v0_ml = "):
+			t.Errorf("V0 %s: error %q names no lever", r[0], r[len(r)-1])
+		}
+	}
+	if rows[1][1] != "invalid" || rows[4][1] != "ok" {
+		t.Errorf("statuses %s … %s, want invalid at V0 −30 and ok at 0", rows[1][1], rows[4][1])
+	}
+}

@@ -54,6 +54,11 @@ type Beat struct {
 // conductance-catheter rate).
 const DefaultSampleInterval = 1e-3
 
+// valveHysteresis is how far past zero a valve's driving pressure must go to
+// switch it, mmHg: far below any pressure that matters (through the smallest
+// valve resistance it passes under 0.5 mL/s), far above the integrator's error.
+const valveHysteresis = 1e-3
+
 // maxSwitches caps valve events in one beat; a heart has eight.
 const maxSwitches = 40
 
@@ -64,7 +69,7 @@ const isovolumicMaxStep = 0.05
 // Integration tolerances. The beat map must be computed well below the 1e-6
 // steady-state tolerance, or its noise would stall Newton's method.
 const (
-	relTol = 1e-8
+	relTol = 1e-7
 	absTol = 1e-6
 )
 
@@ -101,7 +106,15 @@ func NewSolver() *Solver {
 	s := &Solver{SampleInterval: DefaultSampleInterval, y: make([]float64, closedDim)}
 	s.events = make([]ode.Event, numValves)
 	for i := range s.events {
-		s.events[i].G = func(t float64, y []float64) float64 { return s.c.valveDrive(i, t, y) }
+		// A valve switches when its driving pressure passes the hysteresis
+		// band on the far side from its state, so that the solver's error
+		// near a switch cannot open and close it over and over.
+		s.events[i].G = func(t float64, y []float64) float64 {
+			if s.c.valves[i].open {
+				return s.c.valveDrive(i, t, y) + valveHysteresis
+			}
+			return s.c.valveDrive(i, t, y) - valveHysteresis
+		}
 	}
 	return s
 }

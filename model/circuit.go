@@ -168,6 +168,25 @@ func (c *circuit) pressures(t float64, y []float64) (*[NumCompartments]float64, 
 	return &c.cacheP, e
 }
 
+// pressuresInto writes the pressures at (t, y), with the ventricular
+// activation e given, into p.
+func (c *circuit) pressuresInto(p *[NumCompartments]float64, t, e float64, y []float64) {
+	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
+	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
+	if c.closed {
+		ea := c.atr.E(t)
+		p[SystemicVeins] = c.sv.pressure(y[SystemicVeins])
+		p[RightAtrium] = c.atria.pressure(ea, y[RightAtrium])
+		p[RightVentricle] = c.rv.pressure(e, y[RightVentricle])
+		p[PulmonaryArteries] = c.pa.pressure(y[PulmonaryArteries])
+		p[PulmonaryVeins] = c.pv.pressure(y[PulmonaryVeins])
+		p[LeftAtrium] = c.atria.pressure(ea, y[LeftAtrium])
+	} else {
+		p[SystemicVeins] = c.pv0
+		p[LeftAtrium] = c.fill
+	}
+}
+
 func (c *circuit) sameY(y []float64) bool {
 	for i, v := range y {
 		if c.cacheY[i] != v {

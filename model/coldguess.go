@@ -46,7 +46,10 @@ func (p Params) coldClosed() State {
 // left ventricle fills to its EDPVR at lap and ejects the coupling estimate's
 // stroke volume; that flow sets the pressure drops along the circuit; the
 // right ventricle holds that stroke volume above its end-systolic volume at
-// the pulmonary pressure. It returns the state and its stressed volume.
+// the pulmonary pressure. At the start of a beat the arteries are at their
+// diastolic low (the two-element Windkessel's, as in the held guess) and the
+// atria at their mean pressure under their elastance of that moment, just
+// after their contraction. It returns the state and its stressed volume.
 func (p Params) coldClosedAt(lap float64) (State, float64) {
 	period := 60 / p.HeartRate
 	edv := p.V0 + math.Log1p(lap/p.EdpvrA)/p.EdpvrB
@@ -59,14 +62,21 @@ func (p Params) coldClosedAt(lap float64) (State, float64) {
 	pra := math.Max(0.5, p.RVEdpvrA*math.Expm1(p.RVEdpvrB*(edvRV-p.RVV0)))
 	psv := pra + q*p.VenousReturnResistance/(1-p.CavalOcclusion/100)
 	psa := psv + q*p.Resistance
+	diastolic := func(mean, downstream, r, c float64) float64 {
+		q := math.Exp(-period / (r * c))
+		low := downstream + sv/c*q/(1-q)
+		return math.Min(low, mean)
+	}
+	atr := newAtrialActivation(p.HeartRate, p.PRInterval)
+	eAtria := p.AtrialEmin + atr.E(0)*(p.AtrialEmax-p.AtrialEmin)
 	var x State
 	x.V[LeftVentricle] = edv
-	x.V[SystemicArteries] = unstressedSystemicArteries + p.Compliance*psa
+	x.V[SystemicArteries] = unstressedSystemicArteries + p.Compliance*diastolic(psa, psv, p.Resistance, p.Compliance)
 	x.V[SystemicVeins] = unstressedSystemicVeins + p.VenousCompliance*psv
-	x.V[RightAtrium] = atrialV0 + pra/p.AtrialEmin
+	x.V[RightAtrium] = atrialV0 + pra/eAtria
 	x.V[RightVentricle] = edvRV
-	x.V[PulmonaryArteries] = unstressedPulmonaryArtery + p.PulmonaryCompliance*ppa
+	x.V[PulmonaryArteries] = unstressedPulmonaryArtery + p.PulmonaryCompliance*diastolic(ppa, ppv, p.PulmonaryResistance, p.PulmonaryCompliance)
 	x.V[PulmonaryVeins] = unstressedPulmonaryVeins + p.PulmonaryVenousComp*ppv
-	x.V[LeftAtrium] = atrialV0 + lap/p.AtrialEmin
+	x.V[LeftAtrium] = atrialV0 + lap/eAtria
 	return x, p.stressedVolumeOf(x)
 }

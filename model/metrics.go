@@ -256,7 +256,14 @@ func extremesLow(y []float64) (lo float64, at int) {
 func extremes(y []float64) (hi, lo float64) {
 	hi, lo = y[0], y[0]
 	for _, v := range y {
-		hi, lo = math.Max(hi, v), math.Min(lo, v)
+		// Plain comparisons: math.Max and math.Min handle NaN and signed
+		// zeros and are several times slower in this hot loop.
+		if v > hi {
+			hi = v
+		}
+		if v < lo {
+			lo = v
+		}
 	}
 	return hi, lo
 }

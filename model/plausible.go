@@ -2,6 +2,7 @@ package model
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 )
 
@@ -42,7 +43,7 @@ func checkBeat(b *Beat) error {
 			preload = "stressed_volume_ml"
 		}
 		return &ImplausibleError{
-			What:   fmt.Sprintf("the left ventricle's volume falls to %.1f mL (EDV %.1f mL, EF %.0f %%)", vmin, b.Metrics.EDV, b.Metrics.EF),
+			What:   fmt.Sprintf("the left ventricle's volume would fall to %.1f mL from an EDV of %.1f mL", vmin, b.Metrics.EDV),
 			Levers: lever("v0_ml", preload, "ees_mmhg_per_ml", "edpvr_a_mmhg", "edpvr_b_per_ml"),
 			Advice: "raise v0_ml or the filling, or lower Ees, so that the ventricle keeps a positive volume",
 		}
@@ -86,5 +87,5 @@ func leverValues(p *Params, keys ...string) []string {
 	return out
 }
 
-// formatG writes x with the shortest decimal that reads back.
-func formatG(x float64) string { return fmt.Sprint(x) }
+// formatG writes x in six significant digits.
+func formatG(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }

@@ -63,7 +63,7 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	s.dense.Eval(times, cols)
 
 	grid := s.activationGrid(dt, n)
-	y := make([]float64, dim)
+	mitral, aortic := &c.valves[mitralValve], &c.valves[aorticValve]
 	j := 0 // next time of the uniform grid
 	for i, t := range times {
 		var e, de float64
@@ -73,23 +73,32 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 		} else {
 			e, de = c.table.at(t)
 		}
-		for k := range y {
-			y[k] = cols[k][i]
-		}
-		p := c.pressuresAt(t, e, y)
 		// The flows as the valves let them pass: a valve is open where its
 		// driving pressure is positive (the events put the switches on zeros).
-		f := c.openFlowsAt(p)
-		for k := 0; k < comps; k++ {
-			b.P[k][i] = p[k]
-		}
-		_, dpdv, dpde := c.lv.pressureAndSlopes(e, y[LeftVentricle])
-		b.QIn[i], b.QOut[i], b.QPump[i] = f.mitral, f.aortic, f.pump
-		b.PAO[i] = p[SystemicArteries] + c.zc*f.aortic
-		b.DPdt[i] = dpde*de + dpdv*(f.mitral-f.aortic-f.pump)
+		plv, dpdv, dpde := c.lv.pressureAndSlopes(e, cols[LeftVentricle][i])
+		psa := c.sa.pressure(cols[SystemicArteries][i] + c.bal.volume(t))
+		pla := c.fill
+		b.P[LeftVentricle][i], b.P[SystemicArteries][i] = plv, psa
 		if c.closed {
-			b.QTricuspid[i], b.QPulmonic[i] = f.tricuspid, f.pulmonic
+			ea := c.atr.E(t)
+			psv := c.sv.pressure(cols[SystemicVeins][i])
+			pra := c.atria.pressure(ea, cols[RightAtrium][i])
+			prv := c.rv.pressure(e, cols[RightVentricle][i])
+			ppa := c.pa.pressure(cols[PulmonaryArteries][i])
+			pla = c.atria.pressure(ea, cols[LeftAtrium][i])
+			b.P[SystemicVeins][i], b.P[RightAtrium][i], b.P[RightVentricle][i] = psv, pra, prv
+			b.P[PulmonaryArteries][i] = ppa
+			b.P[PulmonaryVeins][i] = c.pv.pressure(cols[PulmonaryVeins][i])
+			b.P[LeftAtrium][i] = pla
+			b.QTricuspid[i] = positive(pra-prv) / tricuspidResistance
+			b.QPulmonic[i] = positive(prv-ppa) / pulmonicResistance
 		}
+		qin := mitral.sampleFlow(pla - plv)
+		qout := aortic.sampleFlow(plv - psa)
+		qpump := c.pump.flow(plv, psa)
+		b.QIn[i], b.QOut[i], b.QPump[i] = qin, qout, qpump
+		b.PAO[i] = psa + c.zc*qout
+		b.DPdt[i] = dpde*de + dpdv*(qin-qout-qpump)
 	}
 	if err := checkSuction(b); err != nil {
 		return nil, err
@@ -104,44 +113,12 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	return b, nil
 }
 
-// pressuresAt returns the pressures at (t, y) with the ventricular activation e
-// given, bypassing the cache.
-func (c *circuit) pressuresAt(t, e float64, y []float64) [NumCompartments]float64 {
-	var p [NumCompartments]float64
-	c.pressuresInto(&p, t, e, y)
-	return p
-}
-
-// pressuresInto writes the pressures at (t, y), with the ventricular
-// activation e given, into p.
-func (c *circuit) pressuresInto(p *[NumCompartments]float64, t, e float64, y []float64) {
-	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
-	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
-	if c.closed {
-		ea := c.atr.E(t)
-		p[SystemicVeins] = c.sv.pressure(y[SystemicVeins])
-		p[RightAtrium] = c.atria.pressure(ea, y[RightAtrium])
-		p[RightVentricle] = c.rv.pressure(e, y[RightVentricle])
-		p[PulmonaryArteries] = c.pa.pressure(y[PulmonaryArteries])
-		p[PulmonaryVeins] = c.pv.pressure(y[PulmonaryVeins])
-		p[LeftAtrium] = c.atria.pressure(ea, y[LeftAtrium])
-	} else {
-		p[SystemicVeins] = c.pv0
-		p[LeftAtrium] = c.fill
+// positive returns x, or 0 when x is not above 0.
+func positive(x float64) float64 {
+	if x > 0 {
+		return x
 	}
-}
-
-// openFlowsAt returns the flows at the pressures p with every valve open
-// where its driving pressure is positive.
-func (c *circuit) openFlowsAt(p [NumCompartments]float64) flows {
-	saved := c.valves
-	c.valves[mitralValve].open = p[LeftAtrium] > p[LeftVentricle]
-	c.valves[aorticValve].open = p[LeftVentricle] > p[SystemicArteries]
-	c.valves[tricuspidValve].open = p[RightAtrium] > p[RightVentricle]
-	c.valves[pulmonicValve].open = p[RightVentricle] > p[PulmonaryArteries]
-	f := c.flowsAt(&p)
-	c.valves = saved
-	return f
+	return 0
 }
 
 // actGrid holds e(t) and de/dt on the uniform sample grid of one beat period.

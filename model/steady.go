@@ -37,6 +37,13 @@ type Warm struct {
 	// the stressed volume's column (closed).
 	hasJac, hasVolume bool
 	ok                bool
+
+	// The parameters solved, and how the unknowns moved per unit of the one
+	// lever changed on the way there (sensKey, "" when none): a nudge of the
+	// same lever starts from where that slope predicts.
+	params  Params
+	sensKey string
+	sens    [maxUnknowns]float64
 }
 
 // Valid reports whether w holds a state to start from.
@@ -147,6 +154,29 @@ type shooter struct {
 	solveK int // unknowns solved for: m, or k when calibrating
 	beats  int
 	unstr  float64 // sum of the unstressed volumes, mL
+	rtol   float64 // the integrator's relative tolerance for the beats now
+}
+
+// Integration tolerances of a search. Far from the fixed point a beat need
+// not be accurate, only well below the residual it is to reduce: while the
+// residual is above looseBelow the beats are integrated at looseTol, then at
+// relTol, and a search ends only on a beat at relTol. The beat map's noise
+// from a loose tolerance is about that tolerance, so the Jacobian's
+// differences are taken over a step of √rtol instead of 1e-4.
+const (
+	looseTol   = 1e-5
+	warmTol    = 1e-6
+	looseBelow = 0.05
+)
+
+// setTol sets the integrator's tolerance for the next beats to rtol, kept
+// between relTol and looseTol.
+func (sh *shooter) setTol(rtol float64) {
+	rtol = math.Min(math.Max(rtol, relTol), looseTol)
+	if rtol != sh.rtol {
+		sh.rtol = rtol
+		sh.s.ode.SetTolerances(rtol, absTol*rtol/relTol)
+	}
 }
 
 // state builds the start-of-beat state from the unknowns z.
@@ -233,34 +263,69 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	if calibrate {
 		sh.solveK = sh.k
 	}
+	defer s.ode.SetTolerances(relTol, absTol)
 	k := sh.k
 	z := make([]float64, 5*k)
 	z, r, zn, rn, dz := z[:k], z[k:2*k], z[2*k:3*k], z[3*k:4*k], z[4*k:]
 	var jac [maxUnknowns * maxUnknowns]float64
 	haveJac, haveVol := false, false
-	if warm.Valid() && warm.circ == p.Circulation {
+	var z0 []float64 // the warm start's unknowns
+	changedKey, changedBy := "", 0.0
+	predicted := false
+	warmStart := warm.Valid() && warm.circ == p.Circulation
+	if warmStart {
 		sv := p.StressedVolume
 		if calibrate && warm.volume > 0 {
 			sv = warm.volume // the volume is an unknown: start from the last one found
 		}
 		sh.unknowns(warm.State, sv, z)
 		jac, haveJac, haveVol = warm.jac, warm.hasJac, warm.hasVolume
+		z0 = append(z0[:0], z...)
+		if key, d, ok := oneChange(warm.params, p); ok {
+			changedKey, changedBy = key, d
+			if key == warm.sensKey {
+				for i := range z {
+					z[i] += warm.sens[i] * d
+				}
+				predicted = true
+			}
+		}
 	} else {
 		sh.unknowns(p.coldGuess(), p.StressedVolume, z)
+	}
+	// A cold start is far from the fixed point; a warm one near it, where the
+	// first Newton step is only as good as the beat it is taken from; a
+	// predicted one usually on it, where its first beat may be the last.
+	switch {
+	case predicted:
+		sh.setTol(relTol)
+	case warmStart:
+		sh.setTol(warmTol)
+	default:
+		sh.setTol(looseTol)
 	}
 	end, err := sh.eval(z, r)
 	if err != nil {
 		// A warm state far from the new parameters can fail; fall back to cold.
 		sh.unknowns(p.coldGuess(), p.StressedVolume, z)
-		haveJac, haveVol = false, false
+		haveJac, haveVol, changedKey = false, false, ""
 		if end, err = sh.eval(z, r); err != nil {
 			return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: math.Inf(1), Cause: err}
 		}
 	}
 	res := sh.norm(r, z)
-	for res >= SteadyTol {
+	for res >= SteadyTol || sh.rtol > relTol {
 		if sh.beats >= MaxSteadyBeats {
 			return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: res}
+		}
+		if res < SteadyTol {
+			// Converged on beats integrated loosely: check on an accurate one.
+			sh.setTol(relTol)
+			if end, err = sh.eval(z, r); err != nil {
+				return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: res, Cause: err}
+			}
+			res = sh.norm(r, z)
+			continue
 		}
 		if !haveJac || calibrate && !haveVol {
 			cols := sh.solveK
@@ -272,6 +337,10 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 				return nil, &NotSettledError{Circulation: p.Circulation, Beats: sh.beats, Residual: res, Cause: err}
 			}
 			haveJac, haveVol = true, haveVol || cols == sh.k
+		}
+		sh.setTol(relTol)
+		if res > looseBelow {
+			sh.setTol(looseTol)
 		}
 		ok, deficient := newtonStep(jac[:], k, sh.solveK, r, dz)
 		if !ok {
@@ -343,8 +412,34 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	if err := checkBeat(b); err != nil {
 		return nil, err
 	}
-	return &Steady{Beat: b, Beats: sh.beats, Residual: res,
-		Warm: Warm{State: start, circ: p.Circulation, volume: s.p.StressedVolume, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true}}, nil
+	w := Warm{State: start, circ: p.Circulation, volume: s.p.StressedVolume, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true, params: p}
+	if changedKey != "" && len(z0) == len(z) {
+		w.sensKey = changedKey
+		for i := range z {
+			w.sens[i] = (z[i] - z0[i]) / changedBy
+		}
+	} else if warmStart && changedKey == "" {
+		w.sensKey, w.sens = warm.sensKey, warm.sens
+	}
+	return &Steady{Beat: b, Beats: sh.beats, Residual: res, Warm: w}, nil
+}
+
+// oneChange reports the key and the change of the one parameter that
+// differs between a and b, if exactly one does and both are of one
+// circulation.
+func oneChange(a, b Params) (key string, d float64, ok bool) {
+	if a.Circulation != b.Circulation {
+		return "", 0, false
+	}
+	for _, s := range Specs {
+		if x, y := s.Get(a), s.Get(b); x != y {
+			if ok {
+				return "", 0, false
+			}
+			key, d, ok = s.Key, y-x, true
+		}
+	}
+	return key, d, ok
 }
 
 // jacobian fills columns first…cols−1 of the forward-difference Jacobian of
@@ -356,7 +451,7 @@ func (sh *shooter) jacobian(z, r, jac []float64, first, cols int) error {
 	zp, rp := zp[:k], zp[k:]
 	for j := first; j < cols; j++ {
 		copy(zp, z)
-		h := 1e-4 * math.Max(math.Abs(z[j]), 10)
+		h := math.Max(1e-4, math.Sqrt(sh.rtol)) * math.Max(math.Abs(z[j]), 10)
 		zp[j] += h
 		if _, err := sh.eval(zp, rp); err != nil {
 			return err

@@ -33,6 +33,21 @@ func (v *valve) flow(dp float64) float64 {
 	return 0
 }
 
+// sampleFlow returns the flow at pressure difference dp as the samples take
+// it: open where dp is positive (the events put the switches on zeros),
+// shut, and leaking if it has a regurgitant orifice, elsewhere.
+func (v *valve) sampleFlow(dp float64) float64 {
+	switch {
+	case dp > 0 && v.k == 0:
+		return dp / v.r
+	case dp > 0:
+		return orificeFlow(dp, v.r, v.k)
+	case v.leak:
+		return orificeFlow(dp, v.r, v.kr)
+	}
+	return 0
+}
+
 // orificeFlow solves r·Q + k·Q·|Q| = dp for Q: a linear resistance r in
 // series with a Bernoulli orifice of coefficient k. The root
 // Q = 2·dp/(r + √(r² + 4k|dp|)) is written so that it loses no digits as

@@ -15,10 +15,13 @@ type ventricle struct {
 	ees, v0, a, b float64
 }
 
-// pressure returns the chamber pressure (mmHg) at activation e and volume v (mL).
+// pressure returns the chamber pressure (mmHg) at activation e and volume v
+// (mL). It takes exp(B·x) − 1 rather than math.Expm1: the assembly exp is
+// several times faster, and near V0, where the two differ in the last
+// digits, the passive pressure is a fraction of a mmHg.
 func (c *ventricle) pressure(e, v float64) float64 {
 	x := v - c.v0
-	return e*c.ees*x + (1-e)*c.a*math.Expm1(c.b*x)
+	return e*c.ees*x + (1-e)*c.a*(math.Exp(c.b*x)-1)
 }
 
 // pressureAndSlopes returns the pressure at (e, v) with its partial

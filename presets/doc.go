@@ -10,9 +10,13 @@
 //	notes: |
 //	  free text
 //	base: normal              # optional: built-in preset filling keys not given
+//	circulation: closed       # optional: closed (the default) or held
 //	params:
 //	  filling_pressure_mmhg: 12
-//	  ...                     # every key of `pvcouple params`, unless base is set
+//	  ...                     # every key of `pvcouple params`, unless base is set; keys of
+//	                          # the closed circulation come from the default preset, and
+//	                          # stressed_volume_ml, if not given, is found so that the mean
+//	                          # left-atrial pressure is filling_pressure_mmhg
 //	baseline:                 # optional: the state what-ifs are compared with
 //	  ...                     # same rules as params
 //
@@ -28,6 +32,7 @@
 //	  - label: baseline       # every step has a one-line label (at most 60 characters)
 //	    hold: 5               # hold: leave the levers alone for 5 beats
 //	  - label: occlusion
+//	    circulation: held     # optional: the step runs in that circulation only
 //	    ramp:                 # ramp: move in equal parts over `beats`, reaching the target on the last
 //	      filling_pressure_mmhg: {factor: 0.4}   # target: a value, `initial` or {factor: F}
 //	    beats: 12             # required for a ramp
@@ -35,7 +40,12 @@
 //	    scale: {resistance_mmhg_s_per_ml: 1.5}   # scale: multiply at once
 //	    beats: 10             # set and scale: beats at the new values (default 1)
 //	  - label: release
+//	    circulation: held
 //	    set: {filling_pressure_mmhg: initial}    # set: a value, or `initial` (the value before step 1)
+//
+// A closed run changes preload with caval_occlusion_pct or stressed_volume_ml,
+// never the filling pressure; a step that changes a lever of the other
+// circulation is refused when the protocol is expanded.
 //
 // Built-in protocols are embedded from protocols/*.yaml. A protocol holds at
 // most MaxProtocolBeats beats.

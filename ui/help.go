@@ -76,7 +76,7 @@ func (m *Model) renderHelp() string {
 			"Readouts: ▲ above, ▼ below the resting adult's normal range; Δ and % are\n" +
 			"changes against the baseline (against the recording when one is open; in\n" +
 			"a protocol, against its starting beat).",
-			recordingCues, fitCue}
+			circulationCue, recordingCues, fitCue}
 	}
 	caution := s.Error.Render(Caution)
 	for n := len(cues); n > 0; n-- {

@@ -46,5 +46,10 @@ const recordingCues = "Recording (O): • its steady loop, · its other beats, r
 	"Coupling map: ·░▒▓█ low to high, ◆ the levers now, * the largest value,\n" +
 	"× no steady beat."
 
+// circulationCue says what the two circulations are.
+const circulationCue = "Circulation (c): closed keeps its blood volume, so filling follows from what the\n" +
+	"heart ejects, and the filling-pressure lever gives or takes blood for a mean\n" +
+	"LAP; held holds the filling pressure, for one lever at a time."
+
 // fitCue says how to start from a model fitted to a recording.
 const fitCue = "Model fitted to a recording: pvcouple fit FILE.csv -o fit.yaml, then o."

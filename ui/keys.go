@@ -56,7 +56,7 @@ func DefaultKeyMap() KeyMap {
 		Fit:         key.NewBinding(key.WithKeys("z"), key.WithHelp("z", "refit axes")),
 		Preset:      key.NewBinding(key.WithKeys("p"), key.WithHelp("p", "preset")),
 		Circulation: key.NewBinding(key.WithKeys("c"), key.WithHelp("c", "held/closed circulation")),
-		Devices:     key.NewBinding(key.WithKeys("d"), key.WithHelp("d", "lesion/support levers")),
+		Devices:     key.NewBinding(key.WithKeys("d"), key.WithHelp("d", "lesions & support")),
 		Save:        key.NewBinding(key.WithKeys("s"), key.WithHelp("s", "save")),
 		Open:        key.NewBinding(key.WithKeys("o"), key.WithHelp("o", "open")),
 		NextView:    key.NewBinding(key.WithKeys("v"), key.WithHelp("v", "next view")),
@@ -98,9 +98,9 @@ func (k KeyMap) PlayHelp() []key.Binding {
 func (k KeyMap) FullHelp() [][]key.Binding {
 	return [][]key.Binding{
 		{k.Up, k.Down, k.BigUp, k.BigDown, k.Prev, k.Next},
-		{k.Pin, k.Revert, k.Undo, k.Redo, k.Fit, k.Circulation, k.Devices},
+		{k.Pin, k.Revert, k.Undo, k.Redo, k.Fit, k.Circulation},
 		{k.Protocol, k.PlayPause, k.StepFwd, k.StepBack, k.Faster, k.Slower, k.Restart, k.Stop},
-		{k.Preset, k.Save, k.Open, k.NextView, k.GoView},
+		{k.Preset, k.Save, k.Open, k.Devices, k.NextView, k.GoView},
 		{k.Help, k.Cancel, k.Confirm, k.Quit},
 		{k.OpenRecording, k.ClearRecording, k.MapMetric, k.MapX, k.MapY}, // recording and map
 	}
