@@ -2,6 +2,7 @@ package presets
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/stat"
@@ -143,5 +144,23 @@ func TestMRPreloadReductionESPVR(t *testing.T) {
 				t.Errorf("%s %s: maximal-elastance ESPVR Ees %.3f V0 %.1f, set %g and %g", tc.preset, c, slope2, -a2/slope2, sc.Params.Ees, sc.Params.V0)
 			}
 		}
+	}
+}
+
+// A scenario that leaves the lesion and support keys out (every one written
+// before they existed) has them off: normal valves, no pump, no balloon.
+func TestScenarioWithoutDeviceKeysHasNone(t *testing.T) {
+	sc, err := Get("normal")
+	if err != nil {
+		t.Fatal(err)
+	}
+	src, _ := Source("normal")
+	if strings.Contains(string(src), "valve_area") {
+		t.Fatal("the normal preset names a lesion key; this test needs a file without them")
+	}
+	p := sc.Params
+	if p.HasDevice() || p.AorticValveArea != model.NormalAorticValveArea || p.MitralValveArea != model.NormalMitralValveArea ||
+		p.PumpHead != 150 || p.BalloonRatio != 1 {
+		t.Errorf("devices of a file without their keys: %+v", p)
 	}
 }

@@ -14,9 +14,10 @@
 //	params:
 //	  filling_pressure_mmhg: 12
 //	  ...                     # every key of `pvcouple params`, unless base is set; keys of
-//	                          # the closed circulation come from the default preset, and
-//	                          # stressed_volume_ml, if not given, is found so that the mean
-//	                          # left-atrial pressure is filling_pressure_mmhg
+//	                          # the closed circulation come from the default preset, valve
+//	                          # lesion and support keys left out are off (no lesion, no
+//	                          # device), and stressed_volume_ml, if not given, is found so
+//	                          # that the mean left-atrial pressure is filling_pressure_mmhg
 //	baseline:                 # optional: the state what-ifs are compared with
 //	  ...                     # same rules as params
 //
