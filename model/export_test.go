@@ -11,6 +11,3 @@ func (s *Solver) Evals() int {
 	}
 	return n
 }
-
-// StressedVolumeOf exposes stressedVolumeOf to the tests.
-func (p Params) StressedVolumeOf(x State) float64 { return p.stressedVolumeOf(x) }
