@@ -37,26 +37,47 @@ func (m *Metrics) noDeviceMetrics() {
 func (s *Solver) measureDevices(b *Beat) {
 	m := &b.Metrics
 	t, n := b.T, len(b.T)
+	var la []float64 // nil when the filling pressure is held
+	if s.c.closed {
+		la = b.P[LeftAtrium]
+	}
+	laPrev := s.leftAtrial(b, 0)
 	var av, avT, mv, mvT, back, fwd, pumped float64
 	peak := math.Inf(-1)
+	gPrev := b.PLV[0] - b.PAO[0]
 	for i := 1; i < n; i++ {
 		dt := t[i] - t[i-1]
-		trap := func(y []float64) float64 { return 0.5 * (y[i] + y[i-1]) * dt }
-		qa, qm := trap(b.QOut), trap(b.QIn)
+		qa := 0.5 * (b.QOut[i] + b.QOut[i-1]) * dt
+		qm := 0.5 * (b.QIn[i] + b.QIn[i-1]) * dt
 		fwd += qa
-		pumped += trap(b.QPump)
-		back += math.Max(-qa, 0) + math.Max(-qm, 0)
-		if g := 0.5 * (b.PLV[i] - b.PAO[i] + b.PLV[i-1] - b.PAO[i-1]); g > 0 {
-			av += g * dt
+		pumped += 0.5 * (b.QPump[i] + b.QPump[i-1]) * dt
+		if qa < 0 {
+			back -= qa
+		}
+		if qm < 0 {
+			back -= qm
+		}
+		g := b.PLV[i] - b.PAO[i]
+		if mid := 0.5 * (g + gPrev); mid > 0 {
+			av += mid * dt
 			avT += dt
-			for _, j := range [2]int{i - 1, i} {
-				peak = math.Max(peak, b.PLV[j]-b.PAO[j])
+			if gPrev > peak {
+				peak = gPrev
+			}
+			if g > peak {
+				peak = g
 			}
 		}
-		if g := 0.5 * (s.leftAtrial(b, i) - b.PLV[i] + s.leftAtrial(b, i-1) - b.PLV[i-1]); g > 0 {
-			mv += g * dt
+		gPrev = g
+		laI := s.p.FillingPressure
+		if la != nil {
+			laI = la[i]
+		}
+		if mid := 0.5 * (laI - b.PLV[i] + laPrev - b.PLV[i-1]); mid > 0 {
+			mv += mid * dt
 			mvT += dt
 		}
+		laPrev = laI
 	}
 	nan := math.NaN()
 	m.AVMeanGradient, m.AVPeakGradient, m.MVMeanGradient = nan, nan, nan
@@ -80,8 +101,10 @@ func (s *Solver) measureDevices(b *Beat) {
 	for i, ti := range t {
 		if ti >= b.DiastoleStart-1e-9 { // the start is a sample (mergeTimes)
 			top := b.PAO[i]
-			for _, p := range b.PAO[i:] {
-				top = math.Max(top, p)
+			for _, p := range b.PAO[i+1:] {
+				if p > top {
+					top = p
+				}
 			}
 			m.DiastolicAugment = top - b.PAO[i]
 			break
