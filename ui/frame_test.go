@@ -256,7 +256,10 @@ func TestBytesPerNudge(t *testing.T) {
 		sizes := nudgeBytes(t, c.p, 120, 40, 16, c.preset, c.setup...)
 		med := median(sizes)
 		t.Logf("%s: median %d bytes per nudge (all: %v)", c.name, med, sizes)
-		if med > maxFrameBytes {
+		// Under the race detector a solve outlasts a frame, so the key
+		// frame and the solved one are written apart and the lever's row
+		// twice: the budget holds for the machine's own speed.
+		if med > maxFrameBytes && !raceDetector {
 			t.Errorf("%s: median %d bytes per nudge, want ≤ %d", c.name, med, maxFrameBytes)
 		}
 	}
