@@ -25,7 +25,7 @@ var MetricSpecs = []MetricSpec{
 	{"ea_hr_r_mmhg_per_ml", "mmHg/mL", "Ea≈HR·R", "Ea estimated as total resistance × heart rate (Sunagawa 1983)", func(m *Metrics) float64 { return m.EaRT }},
 	{"ea_segers_mmhg_per_ml", "mmHg/mL", "Ea(Segers)", "Ea estimated as −0.13 + 1.02·R/T + 0.31/C (Segers 2002)", func(m *Metrics) float64 { return m.EaSegers }},
 	{"hr_bpm", "bpm", "HR", "heart rate", func(m *Metrics) float64 { return m.HR }},
-	{"co_l_per_min", "L/min", "CO", "cardiac output SV·HR", func(m *Metrics) float64 { return m.CO }},
+	{"co_l_per_min", "L/min", "CO", "cardiac output SV·HR, as the PV catheter reads it; with regurgitation above the output to the body (tot CO)", func(m *Metrics) float64 { return m.CO }},
 	{"map_mmhg", "mmHg", "MAP", "mean proximal aortic pressure over the beat", func(m *Metrics) float64 { return m.MAP }},
 	{"sbp_mmhg", "mmHg", "SBP", "systolic (peak) aortic pressure", func(m *Metrics) float64 { return m.SBP }},
 	{"dbp_mmhg", "mmHg", "DBP", "diastolic (lowest) aortic pressure", func(m *Metrics) float64 { return m.DBP }},
