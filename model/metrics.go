@@ -10,7 +10,7 @@ import (
 // them. A value that cannot be measured from the beat at hand (say MAP from an
 // LV-only recording) is NaN. Units are those of the keys in MetricSpecs.
 type Metrics struct {
-	EDV, ESV, SV float64 // mL; SV is EDV less the smallest volume of the beat
+	EDV, ESV, SV float64 // mL; SV is the volume ejected (see Measure)
 	VMin         float64 // smallest volume of the beat, mL
 	EF           float64 // %
 	EDP, ESP     float64 // mmHg
@@ -50,7 +50,7 @@ type Metrics struct {
 	RegurgitantVolume   float64 // backflow through the mitral and aortic valves per beat, mL
 	RegurgitantFraction float64 // regurgitant volume over total SV, %
 	ForwardSV           float64 // net flow through the aortic valve per beat, mL
-	TotalSV             float64 // all the ventricle ejects, every way: EDV − smallest volume, mL
+	TotalSV             float64 // all the ventricle ejects, every way: SV, mL
 	AVOpen              float64 // time the aortic valve passes forward flow, ms (0: it stays shut)
 	PumpCO              float64 // mean flow of the pump, L/min
 	TotalCO             float64 // net aortic valve flow plus pump flow, L/min
@@ -69,6 +69,10 @@ type BeatSamples struct {
 	DPdt []float64
 	// Pao is proximal aortic pressure, mmHg. If nil, MAP, SBP and DBP are NaN.
 	Pao []float64
+	// QIn is the flow through the mitral valve, mL/s, negative backward. If
+	// given (a model beat), end-diastole is the mitral valve's closure (see
+	// Measure). A recording has none.
+	QIn []float64
 	// EDAtStart marks a beat cut at end-diastole, as recorded beats are: its
 	// first sample is end-diastole. Otherwise end-diastole is the sample of
 	// largest volume, which noise would move along the isovolumic plateau.
@@ -113,10 +117,18 @@ const tauWindowAboveEDP = 5
 //
 // End-diastole is the sample of largest volume before the peak of dP/dt
 // (the largest of the beat when it is periodic), or the first sample when
-// b.EDAtStart is set. End-systole is the sample of
+// b.EDAtStart is set. With the mitral flow b.QIn, the search ends where
+// forward mitral flow ends before that peak (the valve's closure; the first
+// sample when the valve is shut there): with aortic regurgitation the
+// ventricle goes on filling through the leak during isovolumic contraction,
+// and the largest volume, at aortic opening, would read the aortic diastolic
+// pressure as EDP. End-systole is the sample of
 // maximal P/(V − V0) (docs/science.md §6), among samples with V − V0 above 2 % of
 // EDV − V0 (and 1 mL), so a near-empty ventricle cannot give a spurious
-// maximum. SV = EDV − ESV; Ea = ESP/SV (Kelly et al. 1992). Stroke work is
+// maximum. SV is the volume ejected: EDV less the smallest volume of the
+// beat or, with b.QIn, the largest volume from end-diastole to end-systole
+// (EDV but for that leak) less the smallest;
+// Ea = ESP/SV (Kelly et al. 1992). Stroke work is
 // the loop area. PE = ½·ESP·(ESV − V0) less the area under the EDPVR from V0 to
 // ESV when the EDPVR is known; PVA = SW + PE (Suga). VO2 follows from PVA by
 // Suga's per-mass relation and SW/VO2 is the mechanical efficiency, both NaN
@@ -130,7 +142,7 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	if n < 8 {
 		return Metrics{}, fmt.Errorf("a beat needs at least 8 samples, got %d", n)
 	}
-	if len(b.P) != n || len(b.V) != n || (b.DPdt != nil && len(b.DPdt) != n) || (b.Pao != nil && len(b.Pao) != n) {
+	if len(b.P) != n || len(b.V) != n || (b.DPdt != nil && len(b.DPdt) != n) || (b.Pao != nil && len(b.Pao) != n) || (b.QIn != nil && len(b.QIn) != n) {
 		return Metrics{}, errors.New("beat samples have columns of different lengths")
 	}
 	period := b.T[n-1] - b.T[0]
@@ -166,6 +178,15 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	if last == 0 {
 		last = n - 1
 	}
+	if b.QIn != nil {
+		closed := 0 // the sample after the last of forward flow: the closure
+		for i := 0; i < last; i++ {
+			if b.QIn[i] > 0 {
+				closed = i + 1
+			}
+		}
+		last = closed
+	}
 	ied := 0
 	for i := 1; i <= last && !b.EDAtStart; i++ {
 		if b.V[i] > b.V[ied] {
@@ -191,7 +212,11 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	m.ESV, m.ESP, m.TES = b.V[ies], b.P[ies], b.T[ies]-b.T[0]
 
 	m.VMin, _ = extremesLow(b.V)
-	m.SV = m.EDV - m.VMin
+	top := m.EDV // a recording's volume on the isovolumic plateau is noise
+	for i := ied; i <= ies && b.QIn != nil; i++ {
+		top = math.Max(top, b.V[i])
+	}
+	m.SV = top - m.VMin
 	m.EF = 100 * m.SV / m.EDV
 	m.Ea = m.ESP / m.SV
 	m.Ees = k.Ees

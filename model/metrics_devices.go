@@ -23,8 +23,8 @@ func (m *Metrics) noDeviceMetrics() {
 //     valve (LA − LV pressure): the mean over the time of forward flow, and
 //     the aortic valve's instantaneous peak.
 //   - Regurgitant volume: the backflow through both valves; the regurgitant
-//     fraction is its share of the total stroke volume (EDV − smallest
-//     volume, as sv_ml). The forward stroke volume is the net flow through
+//     fraction is its share of the total stroke volume (the volume ejected,
+//     as sv_ml). The forward stroke volume is the net flow through
 //     the aortic valve; without a pump, in a steady beat, forward SV plus
 //     regurgitant volume is the total SV when each valve's backflow and the
 //     other's forward flow never overlap [derived].

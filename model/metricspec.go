@@ -13,9 +13,9 @@ type MetricSpec struct {
 // MetricSpecs lists every measurement in output order. The keys are the
 // column names of CSV output and the names in JSON output.
 var MetricSpecs = []MetricSpec{
-	{"edv_ml", "mL", "EDV", "end-diastolic volume (largest volume of the beat)", func(m *Metrics) float64 { return m.EDV }},
+	{"edv_ml", "mL", "EDV", "end-diastolic volume (at mitral closure)", func(m *Metrics) float64 { return m.EDV }},
 	{"esv_ml", "mL", "ESV", "end-systolic volume (at maximal P/(V−V0))", func(m *Metrics) float64 { return m.ESV }},
-	{"sv_ml", "mL", "SV", "stroke volume ejected, EDV − smallest volume", func(m *Metrics) float64 { return m.SV }},
+	{"sv_ml", "mL", "SV", "stroke volume ejected, largest − smallest volume", func(m *Metrics) float64 { return m.SV }},
 	{"ef_pct", "%", "EF", "ejection fraction SV/EDV", func(m *Metrics) float64 { return m.EF }},
 	{"edp_mmhg", "mmHg", "EDP", "end-diastolic pressure", func(m *Metrics) float64 { return m.EDP }},
 	{"esp_mmhg", "mmHg", "ESP", "end-systolic pressure", func(m *Metrics) float64 { return m.ESP }},
@@ -52,7 +52,7 @@ var MetricSpecs = []MetricSpec{
 	{"regurgitant_volume_ml", "mL", "RVol", "backflow through the mitral and aortic valves per beat", func(m *Metrics) float64 { return m.RegurgitantVolume }},
 	{"regurgitant_fraction_pct", "%", "RF", "regurgitant volume over total stroke volume", func(m *Metrics) float64 { return m.RegurgitantFraction }},
 	{"forward_sv_ml", "mL", "fwd SV", "net flow through the aortic valve per beat", func(m *Metrics) float64 { return m.ForwardSV }},
-	{"total_sv_ml", "mL", "tot SV", "all the ventricle ejects, forward and back (EDV − smallest volume)", func(m *Metrics) float64 { return m.TotalSV }},
+	{"total_sv_ml", "mL", "tot SV", "all the ventricle ejects, forward and back (as sv_ml)", func(m *Metrics) float64 { return m.TotalSV }},
 	{"av_open_ms", "ms", "AV ET", "time the aortic valve passes forward flow (0: it stays shut)", func(m *Metrics) float64 { return m.AVOpen }},
 	{"pump_co_l_per_min", "L/min", "pump", "mean flow of the LV-to-aorta pump", func(m *Metrics) float64 { return m.PumpCO }},
 	{"total_co_l_per_min", "L/min", "tot CO", "output to the body: net aortic valve flow plus pump flow", func(m *Metrics) float64 { return m.TotalCO }},

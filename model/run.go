@@ -180,7 +180,7 @@ func (r *Transient) record(t0, t1 float64, last bool) Recording {
 }
 
 // Samples returns the beat's LV pressure, volume and dP/dt with its aortic
-// pressure, for Measure and the loop analyses of model/analysis.
+// pressure and mitral flow, for Measure and the loop analyses of model/analysis.
 func (b *Beat) Samples() BeatSamples {
-	return BeatSamples{T: b.T, P: b.PLV, V: b.VLV, DPdt: b.DPdt, Pao: b.PAO}
+	return BeatSamples{T: b.T, P: b.PLV, V: b.VLV, DPdt: b.DPdt, Pao: b.PAO, QIn: b.QIn}
 }

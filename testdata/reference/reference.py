@@ -50,8 +50,10 @@ The equations, written from docs/science.md:
 Measurements (model/metrics.go defines them; computed here on the beat's own
 1 kHz samples plus the left-heart valve events, as a catheter would record
 them; time means and the loop area are integrals carried by the ODE):
-end-diastole is the largest volume before peak dP/dt, end-systole the sample
-of largest P/(V - V0) above a floor, SV = EDV - smallest volume, PE and PVA
+end-diastole is the largest volume up to mitral closure (the end of forward
+mitral flow) before peak dP/dt, end-systole the sample of largest
+P/(V - V0) above a floor, SV = largest volume from end-diastole to
+end-systole - smallest volume (the volume ejected), PE and PVA
 after Suga, VO2 by the per-100 g relation of Khalafbeigui, Suga & Sagawa 1979,
 Weiss tau, Grossman's meridional wall stress. The valve and device
 measurements (model/metrics_devices.go) come from integrals over the open or
@@ -464,7 +466,7 @@ def measure(circ, integrals, segments, events, diastole, lap_mean):
     ts = sample_grid(period, events, diastole)
     vs, states = evaluate(segments, ts, circ.n)
     ees, v0, A, B = circ.lv
-    plv, dpdt, pao, grad = (np.empty(len(ts)) for _ in range(4))
+    plv, dpdt, pao, grad, qin = (np.empty(len(ts)) for _ in range(5))
     for j, t in enumerate(ts):
         P, (de, dpde, dpdv) = circ.pressures(t, vs[j])
         q = circ.valve_flows(P, states[j])
@@ -472,10 +474,15 @@ def measure(circ, integrals, segments, events, diastole, lap_mean):
         dpdt[j] = dpde * de + dpdv * (q[0] - q[1] - circ.pump_flow(P))
         pao[j] = P["sa"] + p["zc_mmhg_s_per_ml"] * q[1]
         grad[j] = plv[j] - pao[j] if q[1] > 0.0 else -math.inf
+        qin[j] = q[0]
     v = vs[:, 0]
 
     i_rise = int(np.argmax(dpdt))
     upto = i_rise if i_rise > 0 else len(ts) - 1
+    # The mitral valve closes at end-diastole: the sample after the last of
+    # forward mitral flow before the upstroke (the first when none).
+    forward = np.nonzero(qin[:upto] > 0.0)[0]
+    upto = int(forward[-1]) + 1 if len(forward) else 0
     i_ed = int(np.argmax(v[:upto + 1]))
     edv, edp = v[i_ed], plv[i_ed]
     floor = max(1.0, 0.02 * (edv - v0))
@@ -484,7 +491,7 @@ def measure(circ, integrals, segments, events, diastole, lap_mean):
     elastance[ok] = plv[ok] / (v[ok] - v0)
     i_es = int(np.argmax(elastance))
     esv, esp = v[i_es], plv[i_es]
-    sv = edv - float(v.min())
+    sv = float(v[i_ed:i_es + 1].max()) - float(v.min()) if i_es >= i_ed else edv - float(v.min())
     ea = esp / sv
     r_total = p["resistance_mmhg_s_per_ml"] + p["zc_mmhg_s_per_ml"]
 
