@@ -25,7 +25,7 @@ func runCalibrate(env *Env, args []string) error {
 	fs := newFlags(env, "calibrate", "calibrate SALINE.csv [--reference-sv ML] [--sv-from FILE.csv] [-o calibration.yaml] [--force] [--format table|json] [options]", calibrateAbout)
 	rf := recordingFlags{noCalibration: true}
 	rf.addFlags(fs)
-	refSV := fs.Float64("reference-sv", 0, "stroke volume in `ML` measured by a flow probe or thermodilution, for α")
+	refSV := fs.Float64("reference-sv", 0, "stroke volume in `ML` measured by a flow probe or thermodilution, for α (default: none, α is left at 1)")
 	svFrom := fs.String("sv-from", "", "steady recording `FILE.csv` to take the conductance stroke volume from (default: the saline run)")
 	out := fs.String("o", "", "write the calibration to `FILE` (YAML)")
 	force := fs.Bool("force", false, "overwrite the -o file if it exists")

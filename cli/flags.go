@@ -36,7 +36,9 @@ func newFlags(env *Env, name, synopsis, about string) *flagSet {
 			}
 			// Short options read better with one dash: -o FILE.
 			fmt.Fprintf(w, "  %s%s\n      %s", dashed(f.Name), name, usage)
-			if f.DefValue != "" && f.DefValue != "[]" && f.DefValue != "false" {
+			// A usage that tells its default itself keeps the flag's zero
+			// value (which stands for that default) out of sight.
+			if f.DefValue != "" && f.DefValue != "[]" && f.DefValue != "false" && !strings.Contains(usage, "default") {
 				fmt.Fprintf(w, " (default %s)", f.DefValue)
 			}
 			fmt.Fprintln(w)

@@ -32,7 +32,7 @@ func (r *recordingFlags) addFlags(fs *flagSet) {
 	fs.StringVar(&r.read.TimeUnit, "time-unit", "", "time `UNIT`: s or ms (default: from the column name, else s)")
 	fs.StringVar(&r.read.PressureUnit, "pressure-unit", "", "pressure `UNIT`: mmhg or kpa (default: from the column name, else mmhg)")
 	fs.StringVar(&r.read.VolumeUnit, "volume-unit", "", "volume `UNIT`: ml or ul (default: from the column name, else ml)")
-	fs.Float64Var(&r.read.Rate, "rate", 0, "sampling rate in `HZ` (200 to 5000), for a file without a time column")
+	fs.Float64Var(&r.read.Rate, "rate", 0, "sampling rate in `HZ` (200 to 5000), for a file without a time column (default: none, the time column is read)")
 	fs.StringVar(&r.species, "species", "", "species `NAME` (human, pig, dog, sheep, rat, mouse): sets the rates searched and the volumes expected")
 	fs.Float64Var(&r.smoothMS, "smooth-ms", 0, "Savitzky–Golay window in `MS` for smoothing and dP/dt (default: 3.75 % of the beat period, 30 ms at 75 bpm; allowed 5 samples to 1/8 of the beat)")
 	fs.BoolVar(&r.raw, "raw", false, "measure unsmoothed pressure and volume (dP/dt is still filtered)")

@@ -45,7 +45,7 @@ func runSweep(env *Env, args []string) error {
 	var varies listFlag
 	fs.Var(&varies, "vary", "vary one parameter over `KEY=FROM:TO:N` (repeatable; the first varies slowest)")
 	format := fs.String("format", "csv", "output `FORMAT`: csv or json")
-	workers := fs.Int("workers", 0, "solve on `N` goroutines (0: one per core)")
+	workers := fs.Int("workers", 0, "solve on `N` goroutines (default 0: one per core)")
 	pos, err := parse(fs, args)
 	if err != nil {
 		return err

@@ -6,7 +6,8 @@ import (
 )
 
 // Every command's usage line names each of its options (or says
-// [options]), and a command without options prints no "Options:" heading.
+// [options]), a command without options prints no "Options:" heading, and
+// no option tells its default twice.
 func TestUsageLinesNameEveryOption(t *testing.T) {
 	cmds := [][]string{{"protocol", "run"}, {"protocol", "list"}, {"protocol", "show"}}
 	for _, c := range commands {
@@ -33,6 +34,9 @@ func TestUsageLinesNameEveryOption(t *testing.T) {
 		}
 		lines := strings.Split(opts, "\n")
 		for i, line := range lines {
+			if strings.Count(line, "default") > 1 {
+				t.Errorf("%v: an option tells its default twice: %q", cmd, line)
+			}
 			if !strings.HasPrefix(line, "  -") {
 				continue
 			}
