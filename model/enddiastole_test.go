@@ -8,15 +8,15 @@ import (
 )
 
 // End-diastole is where the mitral valve closes: there the ventricle's
-// pressure meets the atrium's (no flow, no gradient) [derived]; when the
+// pressure meets the atrium's (no flow, no gradient) [derived]. When the
 // leak of aortic regurgitation has lifted the ventricle above the atrium
 // before contraction (premature mitral closure) it is the beat's first
-// sample, the onset of contraction, with the ventricle above the atrium. With aortic
-// regurgitation the ventricle goes on filling through the leak during
-// isovolumic contraction, so the largest volume of the beat comes at aortic
-// opening, at the aortic diastolic pressure; a catheter lab reads LVEDP
-// before the isovolumic upstroke, well below the aortic diastolic pressure
-// in chronic regurgitation (common practice, no source).
+// sample, the onset of contraction. The largest volume of a beat with aortic
+// regurgitation comes later, at aortic opening and the aortic diastolic
+// pressure, because the leak fills the ventricle during isovolumic
+// contraction; a catheter lab reads LVEDP before the isovolumic upstroke,
+// well below the aortic diastolic pressure in chronic regurgitation (common
+// practice, no source).
 func TestEndDiastoleIsMitralClosure(t *testing.T) {
 	for _, c := range circulations {
 		for _, name := range []string{"normal", "aortic-regurgitation", "mitral-regurgitation"} {
