@@ -39,7 +39,7 @@ func checkSuction(b *Beat) error {
 	if p.Circulation == Closed {
 		preload = "stressed_volume_ml"
 	}
-	if lo, _ := extremesLow(b.PLV); lo < 0 {
+	if _, lo := extremes(b.PLV); lo < 0 {
 		return &ImplausibleError{
 			What: fmt.Sprintf("the pump draws the left ventricle empty: its pressure falls to %.1f mmHg, its volume below v0_ml = %g mL (a suction event)",
 				lo, p.V0),

@@ -49,6 +49,6 @@ func (c *circuit) setLesions(p *Params) {
 	mv, av := &c.valves[mitralValve], &c.valves[aorticValve]
 	mv.k = stenosisCoef(p.MitralValveArea, NormalMitralValveArea)
 	av.k = stenosisCoef(p.AorticValveArea, NormalAorticValveArea)
-	mv.kr, mv.leak = orificeCoef(p.MitralRegurgitantArea), p.MitralRegurgitantArea > 0
-	av.kr, av.leak = orificeCoef(p.AorticRegurgitantArea), p.AorticRegurgitantArea > 0
+	mv.kr = orificeCoef(p.MitralRegurgitantArea)
+	av.kr = orificeCoef(p.AorticRegurgitantArea)
 }

@@ -211,10 +211,10 @@ func Measure(b BeatSamples, k Known) (Metrics, error) {
 	}
 	m.ESV, m.ESP, m.TES = b.V[ies], b.P[ies], b.T[ies]-b.T[0]
 
-	m.VMin, _ = extremesLow(b.V)
+	_, m.VMin = extremes(b.V)
 	top := m.EDV // a recording's volume on the isovolumic plateau is noise
-	for i := ied; i <= ies && b.QIn != nil; i++ {
-		top = math.Max(top, b.V[i])
+	if b.QIn != nil && ies > ied {
+		top, _ = extremes(b.V[ied : ies+1])
 	}
 	m.SV = top - m.VMin
 	m.EF = 100 * m.SV / m.EDV
@@ -265,17 +265,6 @@ func timeMean(t, y []float64) float64 {
 		s += 0.5 * (y[i] + y[i-1]) * (t[i] - t[i-1])
 	}
 	return s / (t[len(t)-1] - t[0])
-}
-
-// extremesLow returns the smallest value of y and its index.
-func extremesLow(y []float64) (lo float64, at int) {
-	lo = y[0]
-	for i, v := range y {
-		if v < lo {
-			lo, at = v, i
-		}
-	}
-	return lo, at
 }
 
 func extremes(y []float64) (hi, lo float64) {

@@ -37,10 +37,6 @@ func (m *Metrics) noDeviceMetrics() {
 func (s *Solver) measureDevices(b *Beat) {
 	m := &b.Metrics
 	t, n := b.T, len(b.T)
-	var la []float64 // nil when the filling pressure is held
-	if s.c.closed {
-		la = b.P[LeftAtrium]
-	}
 	laPrev := s.leftAtrial(b, 0)
 	var av, avT, mv, mvT, back, fwd, pumped float64
 	peak := math.Inf(-1)
@@ -69,18 +65,14 @@ func (s *Solver) measureDevices(b *Beat) {
 			}
 		}
 		gPrev = g
-		laI := s.p.FillingPressure
-		if la != nil {
-			laI = la[i]
-		}
+		laI := s.leftAtrial(b, i)
 		if mid := 0.5 * (laI - b.PLV[i] + laPrev - b.PLV[i-1]); mid > 0 {
 			mv += mid * dt
 			mvT += dt
 		}
 		laPrev = laI
 	}
-	nan := math.NaN()
-	m.AVMeanGradient, m.AVPeakGradient, m.MVMeanGradient = nan, nan, nan
+	// Measure has marked the gradients and the augmentation not measured.
 	if avT > 0 {
 		m.AVMeanGradient, m.AVPeakGradient = av/avT, peak
 	}
@@ -97,15 +89,9 @@ func (s *Solver) measureDevices(b *Beat) {
 	m.TotalCO = (fwd + pumped) * perMin
 
 	m.AorticEDP = b.PAO[n-1]
-	m.DiastolicAugment = nan
 	for i, ti := range t {
 		if ti >= b.DiastoleStart-1e-9 { // the start is a sample (mergeTimes)
-			top := b.PAO[i]
-			for _, p := range b.PAO[i+1:] {
-				if p > top {
-					top = p
-				}
-			}
+			top, _ := extremes(b.PAO[i:])
 			m.DiastolicAugment = top - b.PAO[i]
 			break
 		}

@@ -25,7 +25,6 @@ func (e *ImplausibleError) Error() string {
 func checkBeat(b *Beat) error {
 	p := &b.Params
 	lever := func(keys ...string) []string { return leverValues(p, keys...) }
-	_, vmin := extremes(b.VLV)
 	if !(b.Metrics.SV > 0.01*b.Metrics.EDV) && !(p.PumpFlow > 0) {
 		afterload := "venous_pressure_mmhg"
 		if p.Circulation == Closed {
@@ -37,13 +36,13 @@ func checkBeat(b *Beat) error {
 			Advice: "raise Ees or the filling, or lower the load, so that the aortic valve opens",
 		}
 	}
-	if !(vmin > 0) || !(b.Metrics.EF > 0 && b.Metrics.EF <= 100) {
+	if !(b.Metrics.VMin > 0) || !(b.Metrics.EF > 0 && b.Metrics.EF <= 100) {
 		preload := "filling_pressure_mmhg"
 		if p.Circulation == Closed {
 			preload = "stressed_volume_ml"
 		}
 		return &ImplausibleError{
-			What:   fmt.Sprintf("the left ventricle's volume would fall to %.1f mL from an EDV of %.1f mL", vmin, b.Metrics.EDV),
+			What:   fmt.Sprintf("the left ventricle's volume would fall to %.1f mL from an EDV of %.1f mL", b.Metrics.VMin, b.Metrics.EDV),
 			Levers: lever("v0_ml", preload, "ees_mmhg_per_ml", "edpvr_a_mmhg", "edpvr_b_per_ml"),
 			Advice: "raise v0_ml or the filling, or lower Ees, so that the ventricle keeps a positive volume",
 		}

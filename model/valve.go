@@ -14,35 +14,26 @@ import "math"
 type valve struct {
 	r    float64 // open resistance, mmHg·s/mL
 	k    float64 // orifice coefficient of a stenosis, mmHg/(mL/s)²; 0 = none
-	kr   float64 // orifice coefficient of the regurgitant orifice, mmHg/(mL/s)²
-	leak bool    // the shut valve has a regurgitant orifice
+	kr   float64 // orifice coefficient of the regurgitant orifice, mmHg/(mL/s)²; 0 = none
 	open bool
 }
 
 // flow returns the flow (mL/s) at pressure difference dp (mmHg), negative
 // for regurgitant backflow.
-func (v *valve) flow(dp float64) float64 {
-	switch {
-	case v.open && v.k == 0:
-		return dp / v.r
-	case v.open:
-		return orificeFlow(dp, v.r, v.k)
-	case v.leak:
-		return orificeFlow(dp, v.r, v.kr)
-	}
-	return 0
-}
+func (v *valve) flow(dp float64) float64 { return v.pass(v.open, dp) }
 
 // sampleFlow returns the flow at pressure difference dp as the samples take
 // it: open where dp is positive (the events put the switches on zeros),
 // shut, and leaking if it has a regurgitant orifice, elsewhere.
-func (v *valve) sampleFlow(dp float64) float64 {
+func (v *valve) sampleFlow(dp float64) float64 { return v.pass(dp > 0, dp) }
+
+// pass returns the flow at pressure difference dp through the valve open or
+// shut.
+func (v *valve) pass(open bool, dp float64) float64 {
 	switch {
-	case dp > 0 && v.k == 0:
-		return dp / v.r
-	case dp > 0:
+	case open:
 		return orificeFlow(dp, v.r, v.k)
-	case v.leak:
+	case v.kr > 0:
 		return orificeFlow(dp, v.r, v.kr)
 	}
 	return 0
