@@ -65,9 +65,6 @@ func runFit(env *Env, args []string) error {
 			return err
 		}
 	}
-	if err := rf.check(); err != nil {
-		return err
-	}
 	a, err := rf.analyze(path)
 	if err != nil {
 		return err

@@ -17,13 +17,18 @@ func init() {
 // valve; q_pump_ml_s is the flow of an LV-to-aorta pump (0 when off).
 var loopColumns = []string{"t_s", "p_lv_mmhg", "v_lv_ml", "p_ao_mmhg", "q_in_ml_s", "q_out_ml_s", "q_pump_ml_s"}
 
-// loopTable returns the column names and series of a beat: loopColumns, and
+// loopTable returns the column names and series of a beat (times rounded
+// by seconds): loopColumns, and
 // in a closed circulation the pressure and volume of every other compartment
 // (the volumes sum to the blood volume at every sample) and the right heart's
 // valve flows.
 func loopTable(b *model.Beat) ([]string, [][]float64) {
 	names := append([]string(nil), loopColumns...)
-	series := [][]float64{b.T, b.PLV, b.VLV, b.PAO, b.QIn, b.QOut, b.QPump}
+	t := make([]float64, len(b.T))
+	for i, ti := range b.T {
+		t[i] = seconds(ti)
+	}
+	series := [][]float64{t, b.PLV, b.VLV, b.PAO, b.QIn, b.QOut, b.QPump}
 	if b.Params.Circulation != model.Closed {
 		return names, series
 	}
@@ -70,9 +75,6 @@ func runLoop(env *Env, args []string) error {
 		for i, c := range columns {
 			col := make([]number, len(series[i]))
 			for j, v := range series[i] {
-				if i == 0 {
-					v = seconds(v)
-				}
 				col[j] = number(v)
 			}
 			samples = append(samples, field{c, col})
@@ -94,7 +96,6 @@ func runLoop(env *Env, args []string) error {
 		for i := range series {
 			row[i] = formatCSV(series[i][j])
 		}
-		row[0] = formatCSV(seconds(series[0][j]))
 		if err := w.Write(row); err != nil {
 			return outputErr(err)
 		}

@@ -154,7 +154,7 @@ func runProtocolOn(pr *presets.Protocol, sc *presets.Scenario, samplesPath strin
 	}
 	if out != nil {
 		if err := out.commit(); err != nil {
-			return nil, outputError("samples", samplesPath, err)
+			return nil, err
 		}
 	}
 	return run, nil

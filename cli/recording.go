@@ -20,8 +20,7 @@ type recordingFlags struct {
 	parallelVolume float64
 	alpha          float64
 	calibration    string
-	calFile        *analysis.CalibrationFile // the file read by --calibration
-	noCalibration  bool                      // calibrate: volumes are read as recorded
+	noCalibration  bool // calibrate: volumes are read as recorded
 }
 
 func (r *recordingFlags) addFlags(fs *flagSet) {
@@ -78,7 +77,6 @@ func (r *recordingFlags) options() (analysis.ReadOptions, analysis.Options, erro
 		if err != nil {
 			return ro, analysis.Options{}, err
 		}
-		r.calFile = c
 		ro.VolumeOffset, ro.Alpha = c.ParallelVolume, c.Alpha
 	}
 	if err := ro.Check(); err != nil {
@@ -119,12 +117,6 @@ func readCalibration(path string) (*analysis.CalibrationFile, error) {
 	}
 	defer f.Close()
 	return analysis.ReadCalibration(f, path)
-}
-
-// check refuses bad options as usage errors, before any file is read.
-func (r *recordingFlags) check() error {
-	_, _, err := r.options()
-	return err
 }
 
 // onePath returns the single file argument of a command.

@@ -73,13 +73,6 @@ func runServe(env *Env, args []string) error {
 	if *idle == 0 {
 		*idle = -1 // never
 	}
-	logw, closeLog, err := openLog(env, *logFile)
-	if err != nil {
-		return err
-	}
-	defer closeLog()
-	cfg := server.Config{Listen: *listen, HostKey: *hostKey, AuthorizedKeys: *keys, Data: *data,
-		MaxSessions: *maxSessions, IdleTimeout: *idle, Log: slog.New(slog.NewTextHandler(logw, nil))}
 	for _, f := range []struct{ name, v string }{
 		{"--listen", *listen}, {"--host-key", *hostKey}, {"--authorized-keys", *keys}, {"--data", *data},
 	} {
@@ -87,6 +80,13 @@ func runServe(env *Env, args []string) error {
 			return usagef("serve: %s is missing (run pvcouple serve without options for an example)", f.name)
 		}
 	}
+	logw, closeLog, err := openLog(env, *logFile)
+	if err != nil {
+		return err
+	}
+	defer closeLog()
+	cfg := server.Config{Listen: *listen, HostKey: *hostKey, AuthorizedKeys: *keys, Data: *data,
+		MaxSessions: *maxSessions, IdleTimeout: *idle, Log: slog.New(slog.NewTextHandler(logw, nil))}
 	srv, err := server.New(cfg)
 	if err != nil {
 		return err
