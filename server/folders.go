@@ -170,19 +170,11 @@ func (f *folders) Open(file ui.File) (*os.File, error) {
 	if err := checkRelative(file.Name); err != nil {
 		return nil, err
 	}
-	fh, err := root.OpenFile(file.Name, os.O_RDONLY|nonBlock, 0)
-	if err != nil {
+	fh, err := safefile.OpenIn(root, file.Name)
+	if err != nil && !errors.Is(err, safefile.ErrNotRegular) {
 		return nil, fmt.Errorf("cannot open %s: %w", file.Name, trimPathError(err))
 	}
-	fi, err := fh.Stat()
-	if err == nil {
-		err = safefile.Check(file.Name, fi)
-	}
-	if err != nil {
-		fh.Close()
-		return nil, err
-	}
-	return fh, nil
+	return fh, err
 }
 
 // checkRelative refuses a name that is not a clean relative slash path
@@ -271,16 +263,16 @@ func (f *folders) Save(name string, data []byte, overwrite bool) (ui.File, error
 	if werr != nil {
 		return fail(werr)
 	}
-	_, statErr := f.own.Lstat(name)
-	replaced := statErr == nil
+	replaced := false
 	if overwrite {
+		_, statErr := f.own.Lstat(name)
+		replaced = statErr == nil
 		err = f.own.Rename(tmp, name)
 	} else {
 		err = f.own.Link(tmp, name)
 		if errors.Is(err, fs.ErrExist) {
 			return ui.File{}, fmt.Errorf("%s: %w", name, presets.ErrExists)
 		}
-		replaced = false
 	}
 	if err != nil {
 		return fail(err)

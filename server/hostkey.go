@@ -9,10 +9,10 @@ import (
 	"io"
 	"io/fs"
 	"os"
-	"path/filepath"
 
 	gossh "golang.org/x/crypto/ssh"
 
+	"pvcouple/internal/atomicfile"
 	"pvcouple/internal/safefile"
 )
 
@@ -55,9 +55,9 @@ func LoadHostKey(path string) (signer gossh.Signer, created bool, err error) {
 	return signer, created, nil
 }
 
-// createHostKey writes a new Ed25519 private key to path, mode 0600. The key
-// is written to a temporary file beside it and linked into place, so a key
-// file is never half written and an existing one is never replaced.
+// createHostKey writes a new Ed25519 private key to path, mode 0600,
+// atomically: a key file is never half written and an existing one is never
+// replaced.
 func createHostKey(path string) error {
 	_, priv, err := ed25519.GenerateKey(rand.Reader)
 	if err != nil {
@@ -67,29 +67,12 @@ func createHostKey(path string) error {
 	if err != nil {
 		return fmt.Errorf("host key: %w", err)
 	}
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, ".hostkey-*")
+	err = atomicfile.WriteFileMode(path, pem.EncodeToMemory(block), false, 0o600)
+	if errors.Is(err, atomicfile.ErrExists) {
+		return fmt.Errorf("host key: cannot create %s: %w", path, err)
+	}
 	if err != nil {
-		return fmt.Errorf("host key: cannot create %s: %w", path, err)
-	}
-	defer os.Remove(tmp.Name())
-	if err := tmp.Chmod(0o600); err != nil {
-		tmp.Close()
 		return fmt.Errorf("host key: %w", err)
-	}
-	if _, err := tmp.Write(pem.EncodeToMemory(block)); err != nil {
-		tmp.Close()
-		return fmt.Errorf("host key: cannot write %s: %w", path, err)
-	}
-	if err := tmp.Sync(); err != nil {
-		tmp.Close()
-		return fmt.Errorf("host key: cannot write %s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		return fmt.Errorf("host key: cannot write %s: %w", path, err)
-	}
-	if err := os.Link(tmp.Name(), path); err != nil {
-		return fmt.Errorf("host key: cannot create %s: %w", path, err)
 	}
 	return nil
 }

@@ -10,7 +10,6 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
-	"sync"
 	"testing"
 	"time"
 
@@ -62,7 +61,7 @@ func TestOpenSSHClient(t *testing.T) {
 	cmd := exec.Command(bin, append([]string{"-tt"}, args...)...)
 	cmd.Env = append(os.Environ(), "TERM=xterm-256color")
 	in, _ := cmd.StdinPipe()
-	var out syncBuffer
+	var out logBuf
 	cmd.Stdout, cmd.Stderr = &out, &out
 	if err := cmd.Start(); err != nil {
 		t.Fatal(err)
@@ -102,22 +101,4 @@ func TestOpenSSHClient(t *testing.T) {
 	if !errors.As(err, &ee) || ee.ExitCode() != 255 || len(got) > 0 || !strings.Contains(stderr.String(), "exec request failed") {
 		t.Errorf("a command over OpenSSH: %v, output %q, %s", err, got, stderr.String())
 	}
-}
-
-// syncBuffer is a bytes.Buffer safe for one writer and one reader.
-type syncBuffer struct {
-	mu sync.Mutex
-	b  bytes.Buffer
-}
-
-func (s *syncBuffer) Write(p []byte) (int, error) {
-	s.mu.Lock()
-	defer s.mu.Unlock()
-	return s.b.Write(p)
-}
-
-func (s *syncBuffer) String() string {
-	s.mu.Lock()
-	defer s.mu.Unlock()
-	return s.b.String()
 }

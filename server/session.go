@@ -3,6 +3,7 @@ package server
 import (
 	"fmt"
 	"io"
+	"math"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -245,7 +246,7 @@ func (s *Server) watchIdle(ss *session, in *idleReader, sess ssh.Session) {
 		}
 		ss.end(endIdle)
 	}
-	ss.mu.Lock()
-	t = time.AfterFunc(s.cfg.IdleTimeout, check)
-	ss.mu.Unlock()
+	// t is set before it can fire: check reads it.
+	t = time.AfterFunc(math.MaxInt64, check)
+	t.Reset(s.cfg.IdleTimeout)
 }

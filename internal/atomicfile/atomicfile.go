@@ -50,6 +50,7 @@ type File struct {
 	f    *os.File
 	path string // destination
 	tmp  string
+	perm fs.FileMode // given at Commit
 	done bool
 }
 
@@ -68,7 +69,7 @@ func Create(path string) (*File, error) {
 		add(tmp)
 		f, err := os.OpenFile(tmp, os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o600)
 		if err == nil {
-			return &File{f: f, path: path, tmp: tmp}, nil
+			return &File{f: f, path: path, tmp: tmp, perm: Perm}, nil
 		}
 		forget(tmp)
 		if !errors.Is(err, fs.ErrExist) {
@@ -97,7 +98,7 @@ func (f *File) Commit(replace bool) error {
 		return errors.New("atomicfile: Commit after Commit or Discard")
 	}
 	defer f.Discard()
-	err := f.f.Chmod(Perm)
+	err := f.f.Chmod(f.perm)
 	if err == nil {
 		err = f.f.Sync()
 	}
@@ -134,12 +135,20 @@ func (f *File) Discard() {
 	untrack(f.tmp)
 }
 
-// WriteFile writes data to path atomically; see Commit for replace.
+// WriteFile writes data to path atomically, with permission Perm; see
+// Commit for replace.
 func WriteFile(path string, data []byte, replace bool) error {
+	return WriteFileMode(path, data, replace, Perm)
+}
+
+// WriteFileMode is WriteFile with permission perm. The data is never
+// readable with wider permissions than perm or 0600 while it is written.
+func WriteFileMode(path string, data []byte, replace bool, perm fs.FileMode) error {
 	f, err := Create(path)
 	if err != nil {
 		return err
 	}
+	f.perm = perm
 	defer f.Discard()
 	if _, err := f.Write(data); err != nil {
 		return err

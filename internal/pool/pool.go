@@ -20,7 +20,6 @@ import (
 	"errors"
 	"runtime"
 	"sync"
-	"time"
 )
 
 // Class says how urgently work is wanted.
@@ -51,9 +50,7 @@ type Pool struct {
 
 // Stats counts what a pool has done.
 type Stats struct {
-	Granted [nClasses]int           // work that got a slot, by class
-	Waited  [nClasses]time.Duration // total time that work waited for its slot
-	MaxWait [nClasses]time.Duration // the longest wait
+	Granted [nClasses]int // work that got a slot, by class
 }
 
 // New returns a pool of n slots; n ≤ 0 means runtime.GOMAXPROCS(0).
@@ -98,8 +95,6 @@ type waiter struct {
 	ready   chan struct{} // closed when granted a slot or refused
 	granted bool
 	err     error
-	since   time.Time
-	class   Class
 }
 
 // Tenant returns a new tenant of p.
@@ -163,7 +158,7 @@ func (t *Tenant) acquire(ctx context.Context, c Class) error {
 		p.mu.Unlock()
 		return nil
 	}
-	w := &waiter{ready: make(chan struct{}), since: time.Now(), class: c}
+	w := &waiter{ready: make(chan struct{})}
 	t.waiting[c] = append(t.waiting[c], w)
 	if !t.queued[c] {
 		t.queued[c] = true
@@ -240,10 +235,7 @@ func (p *Pool) releaseLocked() {
 		} else {
 			t.queued[c] = false
 		}
-		wait := time.Since(w.since)
 		p.stats.Granted[c]++
-		p.stats.Waited[c] += wait
-		p.stats.MaxWait[c] = max(p.stats.MaxWait[c], wait)
 		w.granted = true
 		close(w.ready)
 		return

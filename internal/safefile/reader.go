@@ -93,9 +93,7 @@ func OpenReader(ctx context.Context, open Opener, path string, prog *Progress) (
 		f.Close()
 		return nil, err
 	}
-	if prog == nil {
-		prog = &Progress{}
-	}
-	prog.size.Store(fi.Size())
-	return &File{Reader: NewReader(ctx, f, prog), f: f}, nil
+	r := NewReader(ctx, f, prog)
+	r.prog.size.Store(fi.Size())
+	return &File{Reader: r, f: f}, nil
 }

@@ -76,9 +76,26 @@ func Open(path string) (*os.File, error) {
 	if err != nil {
 		return nil, err
 	}
-	now, err := f.Stat()
+	return checked(path, f)
+}
+
+// OpenIn opens name inside root for reading if it is a regular file: opened
+// without blocking on a named pipe and refused once open if it is not
+// regular, as Open refuses it. Errors of the check name name.
+func OpenIn(root *os.Root, name string) (*os.File, error) {
+	f, err := root.OpenFile(name, os.O_RDONLY|openFlags, 0)
+	if err != nil {
+		return nil, err
+	}
+	return checked(name, f)
+}
+
+// checked returns f if it is a regular file; otherwise it closes f and
+// returns why.
+func checked(path string, f *os.File) (*os.File, error) {
+	fi, err := f.Stat()
 	if err == nil {
-		err = Check(path, now)
+		err = Check(path, fi)
 	}
 	if err != nil {
 		f.Close()
