@@ -91,7 +91,6 @@ type circuit struct {
 	// evaluated at the end of each step, where rhs has just been (FSAL).
 	cacheT float64
 	cacheY [closedDim]float64
-	cacheE float64
 	cacheP [NumCompartments]float64
 }
 
@@ -156,22 +155,28 @@ func (p *Params) unstressed() [NumCompartments]float64 {
 }
 
 // pressures returns the pressure of every compartment at time t of the beat
-// and state y, with the ventricular activation e; cached for the last (t, y).
-func (c *circuit) pressures(t float64, y []float64) (*[NumCompartments]float64, float64) {
+// and state y; cached for the last (t, y).
+func (c *circuit) pressures(t float64, y []float64) *[NumCompartments]float64 {
 	if t == c.cacheT && c.sameY(y) {
-		return &c.cacheP, c.cacheE
+		return &c.cacheP
 	}
 	e, _ := c.table.at(t)
 	c.pressuresInto(&c.cacheP, t, e, y)
-	c.cacheT, c.cacheE = t, e
+	c.cacheT = t
 	copy(c.cacheY[:], y)
-	return &c.cacheP, e
+	return &c.cacheP
 }
 
 // pressuresInto writes the pressures at (t, y), with the ventricular
 // activation e given, into p.
 func (c *circuit) pressuresInto(p *[NumCompartments]float64, t, e float64, y []float64) {
 	p[LeftVentricle] = c.lv.pressure(e, y[LeftVentricle])
+	c.loadPressuresInto(p, t, e, y)
+}
+
+// loadPressuresInto writes every pressure at (t, y) but the left
+// ventricle's into p.
+func (c *circuit) loadPressuresInto(p *[NumCompartments]float64, t, e float64, y []float64) {
 	p[SystemicArteries] = c.sa.pressure(y[SystemicArteries] + c.bal.volume(t))
 	if c.closed {
 		ea := c.atr.E(t)
@@ -223,7 +228,7 @@ func (c *circuit) flowsAt(p *[NumCompartments]float64) flows {
 // rhs is the model's equations: the rate of change of every volume is its
 // inflow less its outflow, so the volumes' sum is conserved exactly.
 func (c *circuit) rhs(t float64, y, dy []float64) {
-	p, _ := c.pressures(t, y)
+	p := c.pressures(t, y)
 	f := c.flowsAt(p)
 	dy[LeftVentricle] = f.mitral - f.aortic - f.pump
 	dy[SystemicArteries] = f.aortic + f.pump - f.systemic
@@ -243,7 +248,7 @@ func (c *circuit) rhs(t float64, y, dy []float64) {
 // at (t, y): the valve opens when it rises through zero and shuts when it
 // falls through zero.
 func (c *circuit) valveDrive(i int, t float64, y []float64) float64 {
-	p, _ := c.pressures(t, y)
+	p := c.pressures(t, y)
 	switch i {
 	case mitralValve:
 		return p[LeftAtrium] - p[LeftVentricle]

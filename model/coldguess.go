@@ -15,13 +15,20 @@ func (p Params) coldGuess() State {
 	edv := p.FilledVolume()
 	ea := (p.Resistance + p.Zc) / period
 	sv := math.Max(0, (edv-p.V0)*p.Ees/(p.Ees+ea))
-	q := math.Exp(-period / (p.Resistance * p.Compliance))
-	// Pc jumps by SV/C at ejection, then decays by q over the beat.
-	pc := p.VenousPressure + sv/p.Compliance*q/(1-q)
+	pc := windkesselLow(sv, period, p.VenousPressure, p.Resistance, p.Compliance)
 	var x State
 	x.V[LeftVentricle] = edv
 	x.V[SystemicArteries] = unstressedSystemicArteries + p.Compliance*pc
 	return x
+}
+
+// windkesselLow is the lowest pressure of a two-element Windkessel (r, c)
+// draining to pressure downstream and fed the stroke volume sv once a
+// period: the pressure jumps by sv/c at ejection, then decays by
+// q = exp(−period/(r·c)) over the beat.
+func windkesselLow(sv, period, downstream, r, c float64) float64 {
+	q := math.Exp(-period / (r * c))
+	return downstream + sv/c*q/(1-q)
 }
 
 // coldClosed is the cold guess of the closed circulation at p's stressed
@@ -52,7 +59,7 @@ func (p Params) coldClosed() State {
 // after their contraction. It returns the state and its stressed volume.
 func (p Params) coldClosedAt(lap float64) (State, float64) {
 	period := 60 / p.HeartRate
-	edv := p.V0 + math.Log1p(lap/p.EdpvrA)/p.EdpvrB
+	edv := p.volumeAt(lap)
 	ea := (p.Resistance + p.Zc) / period
 	sv := math.Max(1, (edv-p.V0)*p.Ees/(p.Ees+ea))
 	q := sv / period
@@ -63,9 +70,7 @@ func (p Params) coldClosedAt(lap float64) (State, float64) {
 	psv := pra + q*p.VenousReturnResistance/(1-p.CavalOcclusion/100)
 	psa := psv + q*p.Resistance
 	diastolic := func(mean, downstream, r, c float64) float64 {
-		q := math.Exp(-period / (r * c))
-		low := downstream + sv/c*q/(1-q)
-		return math.Min(low, mean)
+		return math.Min(windkesselLow(sv, period, downstream, r, c), mean)
 	}
 	atr := newAtrialActivation(p.HeartRate, p.PRInterval)
 	eAtria := p.AtrialEmin + atr.E(0)*(p.AtrialEmax-p.AtrialEmin)

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -69,7 +70,7 @@ func TestHakkiApproximation(t *testing.T) {
 			p := inCirculation(t, "normal", c)
 			p.AorticValveArea = area
 			st := solve(t, p)
-			p2p := maxOf(st.PLV) - st.Metrics.SBP
+			p2p := slices.Max(st.PLV) - st.Metrics.SBP
 			hakki := st.Metrics.TotalCO / math.Sqrt(p2p)
 			t.Logf("%s %.1f cm²: peak-to-peak %.1f mmHg, Hakki %.3f cm²", c, area, p2p, hakki)
 			if relDiff(hakki, area) > 0.2 {
@@ -77,14 +78,6 @@ func TestHakkiApproximation(t *testing.T) {
 			}
 		}
 	}
-}
-
-func maxOf(y []float64) float64 {
-	m := math.Inf(-1)
-	for _, v := range y {
-		m = math.Max(m, v)
-	}
-	return m
 }
 
 // Grading of primary mitral regurgitation by the ACC/AHA 2020 guideline
@@ -215,7 +208,7 @@ func TestPumpUnloadsFailingVentricle(t *testing.T) {
 		}
 		p.PumpFlow = 6
 		high := solve(t, p)
-		if high.Metrics.AVOpen != 0 || high.Metrics.ForwardSV != 0 || maxOf(high.QOut) > 0 {
+		if high.Metrics.AVOpen != 0 || high.Metrics.ForwardSV != 0 || slices.Max(high.QOut) > 0 {
 			t.Errorf("%s: at 6 L/min the aortic valve opens for %.0f ms", c, high.Metrics.AVOpen)
 		}
 		if !math.IsNaN(high.Metrics.AVMeanGradient) {

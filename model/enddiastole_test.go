@@ -2,6 +2,7 @@ package model_test
 
 import (
 	"math"
+	"slices"
 	"testing"
 
 	"pvcouple/model"
@@ -45,7 +46,7 @@ func TestEndDiastoleIsMitralClosure(t *testing.T) {
 			if !(m.EDP < m.DBP-20) {
 				t.Errorf("%s %s: EDP %.1f mmHg within 20 mmHg of the aortic diastolic %.1f mmHg", c, name, m.EDP, m.DBP)
 			}
-			if st.QIn[ied] > 0.01*maxOf(st.QIn) {
+			if st.QIn[ied] > 0.01*slices.Max(st.QIn) {
 				t.Errorf("%s %s: mitral flow %.3g mL/s at end-diastole", c, name, st.QIn[ied])
 			}
 		}

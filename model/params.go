@@ -319,9 +319,10 @@ func (p Params) Validate() error {
 
 // FilledVolume is the volume at which the EDPVR reaches the filling pressure,
 // V0 + ln(1 + P/A)/B: the most the ventricle can fill in a long diastole, mL.
-func (p Params) FilledVolume() float64 {
-	return p.V0 + math.Log1p(p.FillingPressure/p.EdpvrA)/p.EdpvrB
-}
+func (p Params) FilledVolume() float64 { return p.volumeAt(p.FillingPressure) }
+
+// volumeAt is the volume at which the EDPVR reaches pressure pr, mL.
+func (p Params) volumeAt(pr float64) float64 { return p.V0 + math.Log1p(pr/p.EdpvrA)/p.EdpvrB }
 
 // With returns a copy of p with key set to v; the value is not range-checked.
 func (p Params) With(key string, v float64) (Params, error) {

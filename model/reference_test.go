@@ -108,18 +108,12 @@ func checkReferenceIsCurrent(t *testing.T, name string, c model.Circulation, ref
 		t.Errorf("%s: reference is of the %q circulation, want %s", name, ref.Circulation, c)
 		return
 	}
-	sc, err := presets.Get(name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := sc.SetCirculation(c); err != nil {
-		t.Fatal(err)
-	}
+	p := inCirculation(t, name, c)
 	for _, s := range model.Specs {
 		if !s.ActsIn(c) {
 			continue
 		}
-		now := s.Get(sc.Params)
+		now := s.Get(p)
 		v := ref.Params[s.Key]
 		if v == nil {
 			t.Errorf("%s: reference lacks parameter %s", name, s.Key)

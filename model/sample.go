@@ -2,7 +2,8 @@ package model
 
 import "math"
 
-// sample turns the dense record of the last integrated beat into a Beat.
+// sample turns the dense record of the last integrated beat into a measured
+// Beat; a beat checkBeat refuses comes with its error.
 func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	c := &s.c
 	period := c.act.Period
@@ -64,6 +65,8 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 
 	grid := s.activationGrid(dt, n)
 	mitral, aortic := &c.valves[mitralValve], &c.valves[aorticValve]
+	var y [closedDim]float64
+	var pr [NumCompartments]float64
 	j := 0 // next time of the uniform grid
 	for i, t := range times {
 		var e, de float64
@@ -75,23 +78,20 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 		}
 		// The flows as the valves let them pass: a valve is open where its
 		// driving pressure is positive (the events put the switches on zeros).
-		plv, dpdv, dpde := c.lv.pressureAndSlopes(e, cols[LeftVentricle][i])
-		psa := c.sa.pressure(cols[SystemicArteries][i] + c.bal.volume(t))
-		pla := c.fill
-		b.P[LeftVentricle][i], b.P[SystemicArteries][i] = plv, psa
+		for k, col := range cols {
+			y[k] = col[i]
+		}
+		plv, dpdv, dpde := c.lv.pressureAndSlopes(e, y[LeftVentricle])
+		c.loadPressuresInto(&pr, t, e, y[:dim])
+		pr[LeftVentricle] = plv
+		for k := range comps {
+			b.P[k][i] = pr[k]
+		}
+		psa, pla := pr[SystemicArteries], pr[LeftAtrium]
 		if c.closed {
-			ea := c.atr.E(t)
-			psv := c.sv.pressure(cols[SystemicVeins][i])
-			pra := c.atria.pressure(ea, cols[RightAtrium][i])
-			prv := c.rv.pressure(e, cols[RightVentricle][i])
-			ppa := c.pa.pressure(cols[PulmonaryArteries][i])
-			pla = c.atria.pressure(ea, cols[LeftAtrium][i])
-			b.P[SystemicVeins][i], b.P[RightAtrium][i], b.P[RightVentricle][i] = psv, pra, prv
-			b.P[PulmonaryArteries][i] = ppa
-			b.P[PulmonaryVeins][i] = c.pv.pressure(cols[PulmonaryVeins][i])
-			b.P[LeftAtrium][i] = pla
-			b.QTricuspid[i] = positive(pra-prv) / tricuspidResistance
-			b.QPulmonic[i] = positive(prv-ppa) / pulmonicResistance
+			prv := pr[RightVentricle]
+			b.QTricuspid[i] = c.valves[tricuspidValve].sampleFlow(pr[RightAtrium] - prv)
+			b.QPulmonic[i] = c.valves[pulmonicValve].sampleFlow(prv - pr[PulmonaryArteries])
 		}
 		qin := mitral.sampleFlow(pla - plv)
 		qout := aortic.sampleFlow(plv - psa)
@@ -110,21 +110,13 @@ func (s *Solver) sample(start, end State, lap float64) (*Beat, error) {
 	b.Metrics = m2
 	s.measureCirculation(b)
 	s.measureDevices(b)
-	return b, nil
-}
-
-// positive returns x, or 0 when x is not above 0.
-func positive(x float64) float64 {
-	if x > 0 {
-		return x
-	}
-	return 0
+	return b, checkBeat(b)
 }
 
 // actGrid holds e(t) and de/dt on the uniform sample grid of one beat period.
 type actGrid struct {
-	period, tpeak, dt float64
-	e, de             []float64
+	period, dt float64 // the period sets the activation (its peak too)
+	e, de      []float64
 }
 
 // activationGrid returns the activation on the first n times of the grid
@@ -133,8 +125,8 @@ type actGrid struct {
 func (s *Solver) activationGrid(dt float64, n int) *actGrid {
 	g := &s.grid
 	a := &s.c.act
-	if g.period != a.Period || g.tpeak != a.TPeak || g.dt != dt || len(g.e) != n {
-		g.period, g.tpeak, g.dt = a.Period, a.TPeak, dt
+	if g.period != a.Period || g.dt != dt || len(g.e) != n {
+		g.period, g.dt = a.Period, dt
 		g.e, g.de = make([]float64, n), make([]float64, n)
 		for i := range g.e {
 			g.e[i], g.de[i] = s.c.table.at(float64(i) * dt)

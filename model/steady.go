@@ -30,7 +30,6 @@ var closedUnknowns = [...]Compartment{LeftVentricle, SystemicArteries, RightAtri
 // means a cold start.
 type Warm struct {
 	State  State
-	circ   Circulation
 	volume float64                            // stressed volume of State (closed)
 	jac    [maxUnknowns * maxUnknowns]float64 // row-major, of the residual w.r.t. the unknowns
 	// hasJac marks jac as valid for the state unknowns; hasVolume also for
@@ -272,7 +271,7 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	var z0 []float64 // the warm start's unknowns
 	changedKey, changedBy := "", 0.0
 	predicted := false
-	warmStart := warm.Valid() && warm.circ == p.Circulation
+	warmStart := warm.Valid() && warm.params.Circulation == p.Circulation
 	if warmStart {
 		sv := p.StressedVolume
 		if calibrate && warm.volume > 0 {
@@ -409,11 +408,8 @@ func (s *Solver) shoot(p Params, warm *Warm, calibrate bool) (*Steady, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := checkBeat(b); err != nil {
-		return nil, err
-	}
-	w := Warm{State: start, circ: p.Circulation, volume: s.p.StressedVolume, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true, params: p}
-	if changedKey != "" && len(z0) == len(z) {
+	w := Warm{State: start, volume: s.p.StressedVolume, jac: jac, hasJac: haveJac, hasVolume: haveVol, ok: true, params: p}
+	if changedKey != "" { // z0 is then the warm start's, of z's length
 		w.sensKey = changedKey
 		for i := range z {
 			w.sens[i] = (z[i] - z0[i]) / changedBy

@@ -38,12 +38,6 @@ func (c *ventricle) pressureAndSlopes(e, v float64) (pr, dpdv, dpde float64) {
 func (p *Params) lv() ventricle { return ventricle{p.Ees, p.V0, p.EdpvrA, p.EdpvrB} }
 func (p *Params) rv() ventricle { return ventricle{p.RVEes, p.RVV0, p.RVEdpvrA, p.RVEdpvrB} }
 
-// Pressure returns LV pressure (mmHg) at activation e and volume v (mL).
-func (p *Params) Pressure(e, v float64) float64 {
-	c := p.lv()
-	return c.pressure(e, v)
-}
-
 // passive is the EDPVR at x = V − V0.
 func (p *Params) passive(x float64) float64 {
 	return p.EdpvrA * math.Expm1(p.EdpvrB*x)

@@ -170,11 +170,12 @@ func (j *Job) work(ctx context.Context, nChunks int) {
 // solve solves one point, inside the gate if there is one; the error is
 // the gate's when it gave up waiting.
 func (j *Job) solve(ctx context.Context, s *model.Solver, p model.Params, warm *model.Warm) (pt Point, st *model.Steady, err error) {
+	run := func() { pt, st = solvePoint(s, p, warm, j.grid.FillsVolume()) }
 	if j.gate == nil {
-		pt, st = solvePoint(s, p, warm, j.grid.FillsVolume())
+		run()
 		return pt, st, nil
 	}
-	err = j.gate.Do(ctx, func() { pt, st = solvePoint(s, p, warm, j.grid.FillsVolume()) })
+	err = j.gate.Do(ctx, run)
 	return pt, st, err
 }
 
