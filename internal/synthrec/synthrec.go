@@ -18,6 +18,7 @@ import (
 	"os"
 	"strconv"
 
+	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/interp"
 
 	"pvcouple/model"
@@ -148,10 +149,8 @@ func run(spec Spec, beat func(*model.Beat, float64), sample func(t, p, v, pao fl
 		}
 		periods = append(periods, 60/hr*ts)
 	}
-	var dur float64
-	for _, p := range periods {
-		dur += p
-	}
+	dur := floats.Sum(periods)
+	hump := salineHump(spec, periods)
 	dt := 1 / spec.Rate
 	m := int(math.Floor(dur/dt + 1e-9))
 	dur = float64(m) * dt
@@ -194,7 +193,7 @@ func run(spec Spec, beat func(*model.Beat, float64), sample func(t, p, v, pao fl
 		end := offset + b.Period*ts
 		for ; k <= m && (float64(k)*dt < end || i == total-1); k++ {
 			t := math.Min(float64(k)*dt, bt[len(bt)-1])
-			g := 1 + spec.SalineGain*saline(t, spec, periods)
+			g := 1 + spec.SalineGain*hump(t)
 			sample(float64(k)*dt,
 				pp.Predict(t)+spec.NoiseP*rng.NormFloat64()+spec.DriftP*t/dur,
 				alpha*g*pv.Predict(t)*vs+spec.NoiseV*rng.NormFloat64()+spec.DriftV*t/dur+spec.OffsetV,
@@ -206,11 +205,9 @@ func run(spec Spec, beat func(*model.Beat, float64), sample func(t, p, v, pao fl
 	return nil
 }
 
-// saline is the bolus's hump at time t, 0 to 1.
-func saline(t float64, spec Spec, periods []float64) float64 {
-	if spec.SalineBeats == 0 {
-		return 0
-	}
+// salineHump returns the bolus's hump as a function of time, 0 to 1, for
+// beats of the given periods.
+func salineHump(spec Spec, periods []float64) func(t float64) float64 {
 	var t0, t1 float64
 	for i, p := range periods {
 		if i < spec.SalineStart {
@@ -220,10 +217,12 @@ func saline(t float64, spec Spec, periods []float64) float64 {
 			t1 += p
 		}
 	}
-	if t <= t0 || t >= t1 {
-		return 0
+	return func(t float64) float64 {
+		if spec.SalineBeats == 0 || t <= t0 || t >= t1 {
+			return 0
+		}
+		return 0.5 * (1 - math.Cos(2*math.Pi*(t-t0)/(t1-t0)))
 	}
-	return 0.5 * (1 - math.Cos(2*math.Pi*(t-t0)/(t1-t0)))
 }
 
 func orOne(x float64) float64 {

@@ -73,7 +73,6 @@ type Analysis struct {
 	Warnings       []string // what looks doubtful in the data (includes the recording's)
 
 	sigs  []*signals
-	scale float64 // volumes are multiplied by it for model.Measure
 	sdEDV float64 // noise SD of one end-diastolic volume, mL
 }
 
@@ -116,8 +115,7 @@ func Analyze(r *Recording, o Options) (*Analysis, error) {
 	}
 	period, err := beatPeriod(r)
 	if err != nil {
-		return nil, &InputError{File: r.Source, Line: max(r.Columns.cells[1].line, 1), Col: max(r.Columns.cells[1].col, 1),
-			Column: r.Columns.Pressure, Msg: err.Error()}
+		return nil, r.cellErr(1, r.Columns.Pressure, err.Error())
 	}
 	w, err := newWindows(period, r.Rate, o.SmoothWindow)
 	if err != nil {
@@ -125,10 +123,6 @@ func Analyze(r *Recording, o Options) (*Analysis, error) {
 	}
 	o.SmoothWindow = w.smooth
 	a := &Analysis{Recording: r, Options: o, Period: period, Unit: volumeUnitFor(r), Warnings: append([]string(nil), r.Warnings...)}
-	a.scale = 1
-	if a.Unit.Scale != 1 {
-		a.scale = a.Unit.Scale
-	}
 	if sp := r.Species; sp != nil {
 		if hr := 60 / period; hr < sp.MinHR || hr > sp.MaxHR {
 			a.warnf("heart rate about %.0f bpm is outside the usual %.0f–%.0f bpm of a %s (%s)", hr, sp.MinHR, sp.MaxHR, sp.Name, sp.Source)
@@ -148,9 +142,7 @@ func Analyze(r *Recording, o Options) (*Analysis, error) {
 	a.noise()
 	thr := upstrokeThreshold(a.sigs)
 	if !(thr > 0) {
-		c := r.Columns.cells[1]
-		return nil, &InputError{File: r.Source, Line: max(c.line, 1), Col: max(c.col, 1), Column: r.Columns.Pressure,
-			Msg: "pressure never rises steeply: no beats found; is it LV pressure?"}
+		return nil, r.cellErr(1, r.Columns.Pressure, "pressure never rises steeply: no beats found; is it LV pressure?")
 	}
 	for k, sig := range a.sigs {
 		atStart, atEnd := "incomplete: cut by a gap in the recording", "incomplete: cut by a gap in the recording"
@@ -226,7 +218,7 @@ func (a *Analysis) noneKept() error {
 func (a *Analysis) noise() {
 	var sp, sv, so, n float64
 	for _, s := range a.sigs {
-		w := float64(s.noiseCount)
+		w := float64(s.n)
 		sp += w * s.noiseP * s.noiseP
 		sv += w * s.noiseV * s.noiseV
 		so += w * s.noiseVOut * s.noiseVOut
@@ -250,12 +242,11 @@ func (a *Analysis) measure(first bool, known func(*Beat) model.Known) {
 		}
 		f := b.seg.windowInto(&buf, b.from-b.seg.seg.From, b.to-b.seg.seg.From)
 		if first {
-			b.peakP, b.minP = slices.Max(f.P), slices.Min(f.P)
-			b.minV = slices.Min(f.V)
+			b.peakP = slices.Max(f.P)
 			b.closeGap = math.Abs(f.V[len(f.V)-1] - f.V[0])
 			b.Ejection = ejectionTiming(f, b.seg)
 		}
-		m, err := measureScaled(f.samples(), k, a.scale)
+		m, err := measureScaled(f.samples(), k, a.Unit.Scale)
 		if err != nil {
 			b.Measured, b.Metrics = false, nanMetrics()
 			if b.Dropped == "" {
@@ -283,17 +274,16 @@ func (a *Analysis) checkOrientation() error {
 		}
 	}
 	r := a.Recording
-	c := r.Columns.cells[2]
 	if n == 0 {
-		return &InputError{File: r.Source, Line: max(c.line, 1), Col: max(c.col, 1), Msg: fmt.Sprintf(
+		return r.cellErr(2, "", fmt.Sprintf(
 			"no complete beat found in %.3g s (need a pressure upstroke with end-diastole before it, twice); are the pressure (%q) and volume (%q) columns right?",
-			r.Duration(), r.Columns.Pressure, r.Columns.Volume)}
+			r.Duration(), r.Columns.Pressure, r.Columns.Volume))
 	}
 	if 2*cw > n {
-		return &InputError{File: r.Source, Line: max(c.line, 1), Col: max(c.col, 1), Msg: fmt.Sprintf(
+		return r.cellErr(2, "", fmt.Sprintf(
 			"%d of %d loops run clockwise in the pressure–volume plane (LV loops run counter-clockwise): "+
 				"the pressure (%q) and volume (%q) columns look swapped; name them with --pressure-col and --volume-col",
-			cw, n, r.Columns.Pressure, r.Columns.Volume)}
+			cw, n, r.Columns.Pressure, r.Columns.Volume))
 	}
 	return nil
 }
@@ -313,8 +303,7 @@ func (a *Analysis) nearestKnown() func(*Beat) model.Known {
 	return func(b *Beat) model.Known {
 		best, dist := fitted[0], math.MaxInt
 		for _, run := range fitted {
-			first, last := run.Beats[0].Index, run.Beats[len(run.Beats)-1].Index
-			d := max(first-b.Index, b.Index-last, 0)
+			d := max(run.First()-b.Index, b.Index-run.Last(), 0)
 			if d < dist {
 				best, dist = run, d
 			}

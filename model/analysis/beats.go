@@ -52,8 +52,6 @@ type Beat struct {
 	Run int
 
 	peakP    float64 // highest LV pressure, mmHg
-	minP     float64 // lowest LV pressure, mmHg
-	minV     float64 // smallest volume, mL
 	closeGap float64 // |V(end) − V(start)|, mL
 	from, to int     // the beat's samples in the recording
 	onset    int     // the sample of the onset of contraction (≤ from)

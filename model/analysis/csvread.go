@@ -65,16 +65,6 @@ const (
 	MaxAlpha        = 5.0
 )
 
-// LoadCSV reads a recording from a CSV file; see ReadCSV.
-func LoadCSV(path string, o ReadOptions) (*Recording, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, fmt.Errorf("cannot read recording: %w", err)
-	}
-	defer f.Close()
-	return ReadCSV(f, path, o)
-}
-
 // ReadCSV reads a pressure–volume recording from r (name labels messages):
 // a header line naming the columns, then one sample per line. Columns are
 // found by name (time_s,pressure_mmhg,volume_ml and common variants such as
@@ -366,7 +356,7 @@ func (rd *reader) read() (*Recording, error) {
 	if t.n < 2 {
 		return nil, rd.at(-1, "holds %d usable samples; a recording needs at least a few beats", t.n)
 	}
-	if err := rec.setTimeline(&t, o, rd); err != nil {
+	if err := rec.setTimeline(&t); err != nil {
 		return nil, err
 	}
 	if t.n > largeRecording {

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"gonum.org/v1/gonum/floats"
 )
 
 // Ejection is the timing of ejection in one beat, read from the timing
@@ -57,12 +59,7 @@ func (e Ejection) Found() bool { return e.Err == "" }
 func ejectionTiming(f filtered, sig *signals) Ejection {
 	q, t, v := f.Flow, f.T, f.VT
 	n := len(q)
-	iq := 0
-	for i := range q {
-		if q[i] > q[iq] {
-			iq = i
-		}
-	}
+	iq := floats.MaxIdx(q)
 	qmax := q[iq]
 	if !(qmax > 0) || iq == 0 || iq == n-1 {
 		return noEjection("no outflow peak inside the beat")

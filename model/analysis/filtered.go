@@ -41,12 +41,11 @@ type signals struct {
 	detect []float32 // mmHg/s, dP/dt of the timing derivative, for finding upstrokes
 	v      []float32 // mL, the volume of the timing smoother, for finding end-diastole
 
-	noiseP     float64 // estimated SD of the pressure noise, mmHg
-	noiseV     float64 // estimated SD of the volume noise, mL
-	noiseVOut  float64 // estimated SD of the noise left in the measured volume, mL
-	noiseVT    float64 // estimated SD of the noise left in v, mL
-	noiseFlow  float64 // estimated SD of the noise of the timing derivative of volume, mL/s
-	noiseCount int     // samples the noise estimates rest on
+	noiseP    float64 // estimated SD of the pressure noise, mmHg
+	noiseV    float64 // estimated SD of the volume noise, mL
+	noiseVOut float64 // estimated SD of the noise left in the measured volume, mL
+	noiseVT   float64 // estimated SD of the noise left in v, mL
+	noiseFlow float64 // estimated SD of the noise of the timing derivative of volume, mL/s
 }
 
 // window lengths in samples for a span of seconds: odd, at least minWindow.
@@ -100,7 +99,6 @@ func newSignals(r *Recording, s Segment, w *windows, smooth bool) (*signals, err
 	ct := sig.ts.coef[wt/2][wt/2]
 	sig.noiseP = math.Sqrt(ssP/float64(n)) / math.Sqrt(1-ct)
 	sig.noiseV = math.Sqrt(ssV/float64(n)) / math.Sqrt(1-ct)
-	sig.noiseCount = n
 	sig.noiseVOut = sig.noiseV
 	if smooth {
 		sig.noiseVOut = sig.noiseV * math.Sqrt(sig.sm.coef[ws/2][ws/2])

@@ -30,15 +30,6 @@ type OverlayLoop struct {
 	V, P   []float64 // mL and mmHg, filtered, in time order
 }
 
-// Open reads and analyses a recording: LoadCSV then Analyze.
-func Open(path string, ro ReadOptions, o Options) (*Analysis, error) {
-	r, err := LoadCSV(path, ro)
-	if err != nil {
-		return nil, err
-	}
-	return Analyze(r, o)
-}
-
 // maxOverlayLoops caps the loops drawn: a long recording has thousands,
 // more than a terminal plot can tell apart.
 const maxOverlayLoops = 200

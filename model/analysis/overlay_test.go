@@ -1,14 +1,14 @@
 package analysis
 
 import (
+	"bytes"
 	"math"
-	"path/filepath"
 	"testing"
 
 	"pvcouple/internal/synthrec"
 )
 
-// Open and Overlay give the TUI closed, finite loops of the kept beats
+// Overlay gives the TUI closed, finite loops of the kept beats
 // within their bounds, and a representative steady loop.
 func TestOverlay(t *testing.T) {
 	spec := occlusion(presetParams(t, "normal"))
@@ -17,11 +17,15 @@ func TestOverlay(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	path := filepath.Join(t.TempDir(), "rec.csv")
-	if err := sr.WriteFile(path, "time_s", "pressure_mmhg", "volume_ml", 1); err != nil {
+	var csv bytes.Buffer
+	if err := sr.WriteCSV(&csv, "time_s", "pressure_mmhg", "volume_ml", ""); err != nil {
 		t.Fatal(err)
 	}
-	a, err := Open(path, ReadOptions{}, Options{})
+	rec, err := ReadCSV(&csv, "rec.csv", ReadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Analyze(rec, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -41,8 +45,5 @@ func TestOverlay(t *testing.T) {
 				t.Fatalf("beat %d point %d (%g, %g) outside bounds %+v", l.Beat, i, l.V[i], l.P[i], ov)
 			}
 		}
-	}
-	if _, err := Open(filepath.Join(t.TempDir(), "missing.csv"), ReadOptions{}, Options{}); err == nil {
-		t.Error("missing file opened")
 	}
 }

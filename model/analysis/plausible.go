@@ -27,9 +27,8 @@ func (r *Recording) checkPlausible(rd *reader) error {
 		return rd.at(-1, "the recording lasts %.3g s; at least %g s (a few beats) is needed", d, MinDuration)
 	}
 	perr := func(k int, format string, a ...any) error {
-		c := r.Columns.cells[k]
 		name := []string{r.Columns.Time, r.Columns.Pressure, r.Columns.Volume, r.Columns.Aortic}[k]
-		return &InputError{File: r.Source, Line: max(c.line, 1), Col: max(c.col, 1), Column: name, Msg: fmt.Sprintf(format, a...)}
+		return r.cellErr(k, name, fmt.Sprintf(format, a...))
 	}
 	p1, p99 := percentiles(&r.p)
 	r.pRange = [2]float64{p1, p99}

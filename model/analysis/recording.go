@@ -124,6 +124,13 @@ type InputError struct {
 	Msg    string
 }
 
+// cellErr is the problem msg placed at the header cell of column k (0 time,
+// 1 pressure, 2 volume, 3 aortic pressure), naming column unless it is "".
+func (r *Recording) cellErr(k int, column, msg string) *InputError {
+	c := r.Columns.cells[k]
+	return &InputError{File: r.Source, Line: max(c.line, 1), Col: max(c.col, 1), Column: column, Msg: msg}
+}
+
 // Error formats the problem as FILE:LINE:COL: column "NAME": message.
 func (e *InputError) Error() string {
 	var b strings.Builder

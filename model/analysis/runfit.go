@@ -68,12 +68,9 @@ func (a *Analysis) fitRuns() {
 		}
 	}
 	a.PreloadRun, a.ESPVR, a.EDPVR = first.Beats, first.ESPVR, first.EDPVR
+	a.Known = first.known(a.Known)
 	if a.ESPVR != nil {
-		a.Known.V0, a.Known.Ees = a.ESPVR.V0, a.ESPVR.Ees
 		a.V0Source, a.EesSource = SourceESPVR, SourceESPVR
-	}
-	if a.EDPVR != nil {
-		a.Known.EdpvrA, a.Known.EdpvrB = a.EDPVR.A, a.EDPVR.B
 	}
 	for _, run := range a.Runs {
 		for _, n := range run.Notes {

@@ -1,7 +1,9 @@
 package analysis
 
 import (
+	"cmp"
 	"math"
+	"slices"
 )
 
 // A preload run is a stretch of kept beats whose end-diastolic volume falls
@@ -64,35 +66,22 @@ func findRuns(kept []*Beat, sd float64) [][]*Beat {
 		}
 	}
 	// Largest changes first, skipping any that overlaps one already taken.
+	// (The stable sort keeps the earlier of equal changes first.)
+	slices.SortStableFunc(cands, func(x, y cand) int { return cmp.Compare(y.change, x.change) })
 	taken := make([]bool, len(kept))
 	var runs [][]*Beat
-	for len(cands) > 0 {
-		best := 0
-		for k, c := range cands {
-			if c.change > cands[best].change {
-				best = k
-			}
-		}
-		c := cands[best]
-		cands = append(cands[:best], cands[best+1:]...)
-		free := true
-		for i := c.from; i <= c.to; i++ {
-			free = free && !taken[i]
-		}
-		if !free {
+	for _, c := range cands {
+		span := taken[c.from : c.to+1]
+		if slices.Contains(span, true) {
 			continue
 		}
-		for i := c.from; i <= c.to; i++ {
-			taken[i] = true
+		for i := range span {
+			span[i] = true
 		}
 		runs = append(runs, trimPlateau(kept[c.from:c.to+1], sd))
 	}
-	// In time order.
-	for i := 1; i < len(runs); i++ {
-		for j := i; j > 0 && runs[j][0].Index < runs[j-1][0].Index; j-- {
-			runs[j], runs[j-1] = runs[j-1], runs[j]
-		}
-	}
+	// In time order (the runs do not overlap).
+	slices.SortFunc(runs, func(x, y []*Beat) int { return x[0].Index - y[0].Index })
 	return runs
 }
 

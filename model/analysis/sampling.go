@@ -22,7 +22,7 @@ const jitterTol = 0.1
 // each segment: a segment whose intervals all lie within jitterTol of the
 // median keeps its samples at its mean interval; one with short gaps or
 // jitter is resampled to the median interval by linear interpolation.
-func (r *Recording) setTimeline(t *times, o ReadOptions, rd *reader) error {
+func (r *Recording) setTimeline(t *times) error {
 	n := t.n
 	med := medianInterval(t)
 	rate, _ := strconv.ParseFloat(strconv.FormatFloat(1/med, 'g', 9, 64), 64)
@@ -34,10 +34,9 @@ func (r *Recording) setTimeline(t *times, o ReadOptions, rd *reader) error {
 		case r.Columns.TimeUnit == "ms" && rate/1e3 >= MinRate && rate/1e3 <= MaxRate:
 			hint = "; the times look like seconds: give --time-unit s"
 		}
-		cell := r.Columns.cells[0]
-		return &InputError{File: r.Source, Line: max(cell.line, 1), Col: max(cell.col, 1), Column: r.Columns.Time, Msg: fmt.Sprintf(
+		return r.cellErr(0, r.Columns.Time, fmt.Sprintf(
 			"sampling rate %.6g Hz (median step %.4g %s) is outside %d to %d Hz%s",
-			rate, med/timeScale[r.Columns.TimeUnit], r.Columns.TimeUnit, MinRate, MaxRate, hint)}
+			rate, med/timeScale[r.Columns.TimeUnit], r.Columns.TimeUnit, MinRate, MaxRate, hint))
 	}
 	// The median interval carries the file's rounding: 1/0.004 reads as
 	// 249.99999999999977. Nine significant digits are plenty.
@@ -70,11 +69,7 @@ func (r *Recording) setTimeline(t *times, o ReadOptions, rd *reader) error {
 	}
 	if !slices.Contains(need, true) {
 		for _, s := range spans {
-			step := med
-			if s.To-s.From > 1 {
-				step = (t.at(s.To-1) - t.at(s.From)) / float64(s.To-s.From-1)
-			}
-			r.Segments = append(r.Segments, Segment{Span: s, Start: t.at(s.From), Step: step})
+			r.Segments = append(r.Segments, Segment{Span: s, Start: t.at(s.From), Step: meanStep(t, s, med)})
 		}
 	} else {
 		r.resample(t, spans, need, med)
@@ -114,11 +109,7 @@ func (r *Recording) resample(t *times, spans []Span, need []bool, med float64) {
 					c.dst.push(c.src.at(i))
 				}
 			}
-			step := med
-			if s.To-s.From > 1 {
-				step = (t.at(s.To-1) - t.at(s.From)) / float64(s.To-s.From-1)
-			}
-			r.Segments = append(r.Segments, Segment{Span{start, p.n}, t.at(s.From), step})
+			r.Segments = append(r.Segments, Segment{Span{start, p.n}, t.at(s.From), meanStep(t, s, med)})
 			continue
 		}
 		t0, t1 := t.at(s.From), t.at(s.To-1)
@@ -151,4 +142,13 @@ func (r *Recording) resample(t *times, spans []Span, need []bool, med float64) {
 	if r.hasAortic {
 		r.pao = pao
 	}
+}
+
+// meanStep is the mean interval of the samples of span s, med for a single
+// sample.
+func meanStep(t *times, s Span, med float64) float64 {
+	if s.To-s.From > 1 {
+		return (t.at(s.To-1) - t.at(s.From)) / float64(s.To-s.From-1)
+	}
+	return med
 }

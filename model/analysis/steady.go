@@ -2,6 +2,7 @@ package analysis
 
 import (
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/stat"
 )
@@ -95,6 +96,6 @@ func robustLine(t, y []float64) (alpha, beta float64) {
 
 // quartiles of x (x is reordered).
 func quartiles(x []float64) (q1, q3 float64) {
-	median(x) // sorts
+	slices.Sort(x)
 	return stat.Quantile(0.25, stat.LinInterp, x, nil), stat.Quantile(0.75, stat.LinInterp, x, nil)
 }

@@ -22,7 +22,6 @@ const (
 
 // windows are the time windows of one analysis, s.
 type windows struct {
-	period               float64 // median beat period found before detection
 	smooth               float64 // measuring window
 	timing               float64
 	refractory, edSearch float64
@@ -32,7 +31,7 @@ type windows struct {
 // newWindows sets the windows for a recording of median period T sampled at
 // rate; smooth is the requested measuring window (0: the default).
 func newWindows(T, rate, smooth float64) (*windows, error) {
-	w := &windows{period: T, timing: timingFrac * T,
+	w := &windows{timing: timingFrac * T,
 		refractory: refractoryFrac * T, edSearch: edSearchFrac * T,
 		minSmooth: minWindow / rate, maxSmooth: maxSmoothFrac * T}
 	if T*rate < minSamplesPerBeat {
