@@ -55,22 +55,25 @@ func (m *Model) leverList() []model.Lever {
 	return model.Levers
 }
 
-// lever returns the selected lever. A selection in a group no longer shown
-// (the levers turned off by an undo or a load) falls back to the first lever.
-func (m *Model) lever() model.Lever {
-	ls := m.leverList()
-	if m.sel >= len(ls) {
-		m.sel = 0
+// selected returns the index of the selected lever in leverList. A
+// selection in a group no longer shown (the levers turned off by an undo, a
+// revert or a load) falls back to the first lever.
+func (m *Model) selected() int {
+	if m.sel >= len(m.leverList()) {
+		return 0
 	}
-	return ls[m.sel]
+	return m.sel
 }
+
+// lever returns the selected lever.
+func (m *Model) lever() model.Lever { return m.leverList()[m.selected()] }
 
 // toggleDevices moves the selection into the lesion and support group,
 // showing it, or back to the main levers, hiding the group again unless
 // one of its levers is on.
 func (m *Model) toggleDevices() {
 	n := len(model.Levers)
-	if m.sel < n || !m.devicesShown() {
+	if m.selected() < n {
 		m.showDevices = true
 		m.selectLever(n)
 		m.setStatus("Valve lesions and support: " + m.status)

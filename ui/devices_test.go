@@ -6,6 +6,8 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/muesli/termenv"
+
+	"pvcouple/model"
 )
 
 // d lists the lesion and support levers and selects the first; a lesion
@@ -40,6 +42,32 @@ func TestDevicesGroupShowsAndHides(t *testing.T) {
 	keys(m, "r") // back to the baseline, everything off
 	if m.devicesShown() || strings.Contains(m.View(), "AV ΔP") {
 		t.Errorf("at the baseline with everything off the group or its readouts stay:\n%s", m.View())
+	}
+}
+
+// A selection left in the lesion group when it hides (a revert turns its
+// levers off) falls back to the first lever for every key: Tab then moves
+// to the second, not to wherever the stale selection counted to.
+func TestHiddenGroupSelectionFallsBack(t *testing.T) {
+	m := sized(t, "normal")
+	keys(m, "d", "down", "d") // a lesion on, back to the main levers: the group stays listed
+	for range 10 {
+		keys(m, "tab") // into the lesion group
+	}
+	if m.lever().Key == "filling_pressure_mmhg" || !m.devicesShown() {
+		t.Fatalf("ten tabs with the group listed: lever %s", m.lever().Key)
+	}
+	keys(m, "r")
+	if m.devicesShown() || !strings.Contains(m.View(), "▸ Filling pressure") {
+		t.Fatalf("after the revert: group listed %v; screen:\n%s", m.devicesShown(), m.View())
+	}
+	keys(m, "tab")
+	if got := m.lever().Key; got != "ees_mmhg_per_ml" {
+		t.Errorf("tab from the fallen-back selection selects %s, want ees_mmhg_per_ml", got)
+	}
+	keys(m, "shift+tab", "shift+tab")
+	if got, want := m.lever().Key, model.Levers[len(model.Levers)-1].Spec().Key; got != want {
+		t.Errorf("two shift+tabs from the second lever select %s, want %s", got, want)
 	}
 }
 

@@ -103,10 +103,7 @@ func (m *Model) renderBody() string {
 			src = s
 		}
 	}
-	levers, sel := m.leverList(), m.sel
-	if sel >= len(levers) {
-		sel = 0 // as lever() will take it
-	}
+	levers, sel := m.leverList(), m.selected()
 	if !l.strip {
 		// Lesion and device readouts take lines from the lever panel.
 		k := min(m.readouts.deviceRows(src), max(l.mainH-l.readH-1-leverColumnLines(), 0))

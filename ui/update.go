@@ -85,9 +85,9 @@ func (m *Model) key(msg tea.KeyMsg) tea.Cmd {
 	case key.Matches(msg, k.BigDown):
 		return m.nudge(-1, true)
 	case key.Matches(msg, k.Next):
-		m.selectLever(m.sel + 1)
+		m.selectLever(m.selected() + 1)
 	case key.Matches(msg, k.Prev):
-		m.selectLever(m.sel - 1)
+		m.selectLever(m.selected() - 1)
 	case key.Matches(msg, k.Pin):
 		m.pin()
 	case key.Matches(msg, k.Revert):
