@@ -6,6 +6,7 @@ import (
 	"path"
 	"sort"
 	"strings"
+	"sync"
 )
 
 //go:embed builtin/*.yaml
@@ -33,17 +34,52 @@ func Names() []string {
 	return names
 }
 
-// Get returns a built-in preset by name.
+// Get returns a built-in preset by name, a copy of its own to change.
 func Get(name string) (*Scenario, error) {
-	return builtinScenario(name)
+	sc, err := builtinScenario(name)
+	if err != nil {
+		return nil, err
+	}
+	c := *sc
+	if sc.Baseline != nil {
+		b := *sc.Baseline
+		c.Baseline = &b
+	}
+	return &c, nil
 }
 
+// parsed holds the built-in presets read so far: reading one in a closed
+// circulation calibrates its blood volume, a steady-state solve, and the
+// preset picker, every session and every listing read them all.
+var parsed struct {
+	sync.Mutex
+	byName map[string]*Scenario
+}
+
+// builtinScenario returns the built-in preset name, read once; the caller
+// must not change it.
 func builtinScenario(name string) (*Scenario, error) {
+	parsed.Lock()
+	sc := parsed.byName[name]
+	parsed.Unlock()
+	if sc != nil {
+		return sc, nil
+	}
 	data, err := builtinFS.ReadFile(path.Join("builtin", name+".yaml"))
 	if err != nil || strings.ContainsAny(name, "/\\") {
 		return nil, fmt.Errorf("unknown preset %q; built-in presets: %s", name, strings.Join(Names(), ", "))
 	}
-	return ParseScenario(data, "preset "+name)
+	sc, err = ParseScenario(data, "preset "+name)
+	if err != nil {
+		return nil, err
+	}
+	parsed.Lock()
+	if parsed.byName == nil {
+		parsed.byName = map[string]*Scenario{}
+	}
+	parsed.byName[name] = sc
+	parsed.Unlock()
+	return sc, nil
 }
 
 // Source returns the YAML text of a built-in preset, comments included.

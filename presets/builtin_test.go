@@ -87,3 +87,31 @@ func TestDiseasePresetsMeetTheirDefinitions(t *testing.T) {
 		t.Errorf("vasodilated Ea %.2f MAP %.0f vs normal %.2f %.0f", v.Ea, v.MAP, n.Ea, n.MAP)
 	}
 }
+
+// Each Get gives a scenario of its own: changing one (its parameters, its
+// baseline, its circulation) leaves the next Get of the preset as it was.
+func TestGetGivesACopy(t *testing.T) {
+	for _, name := range Names() {
+		a, err := Get(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := *a
+		var wantBase model.Params
+		if a.Baseline != nil {
+			wantBase = *a.Baseline
+			a.Baseline.Ees *= 2
+		}
+		a.Params.Ees *= 2
+		if err := a.SetCirculation(model.Held); err != nil {
+			t.Fatal(err)
+		}
+		b, err := Get(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if b.Params != want.Params || (b.Baseline != nil && *b.Baseline != wantBase) {
+			t.Errorf("%s: a change to one Get shows in the next", name)
+		}
+	}
+}
