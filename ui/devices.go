@@ -22,23 +22,18 @@ const (
 	groupBalloon
 )
 
-// deviceGroups returns the groups of readouts the parameters need.
-func deviceGroups(ps ...*model.Params) deviceGroup {
+// deviceGroups returns the groups of readouts the parameters p need.
+func deviceGroups(p *model.Params) deviceGroup {
 	var g deviceGroup
-	for _, p := range ps {
-		if p == nil {
-			continue
-		}
-		if p.AorticValveArea != model.NormalAorticValveArea || p.MitralValveArea != model.NormalMitralValveArea ||
-			p.AorticRegurgitantArea > 0 || p.MitralRegurgitantArea > 0 {
-			g |= groupLesion
-		}
-		if p.PumpFlow > 0 {
-			g |= groupPump
-		}
-		if p.BalloonVolume > 0 {
-			g |= groupBalloon
-		}
+	if p.AorticValveArea != model.NormalAorticValveArea || p.MitralValveArea != model.NormalMitralValveArea ||
+		p.AorticRegurgitantArea > 0 || p.MitralRegurgitantArea > 0 {
+		g |= groupLesion
+	}
+	if p.PumpFlow > 0 {
+		g |= groupPump
+	}
+	if p.BalloonVolume > 0 {
+		g |= groupBalloon
 	}
 	return g
 }

@@ -5,7 +5,6 @@ import (
 	"os"
 	"path"
 
-	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/internal/safetext"
@@ -24,13 +23,6 @@ var promptFiles = map[promptKind]FileKind{
 	promptRecording: RecordingFiles,
 }
 
-// fileWhat names each kind of file in messages.
-var fileWhat = map[FileKind]string{
-	ScenarioFiles:  "scenario",
-	ProtocolFiles:  "protocol",
-	RecordingFiles: "recording",
-}
-
 // fileLabel is how a file is shown: its name in the fellow's folder, or
 // "shared/" and its name in the lab's folder.
 func fileLabel(f File) string {
@@ -45,11 +37,11 @@ func fileLabel(f File) string {
 func (m *Model) openFiles(k FileKind) {
 	files, err := m.folders.List(k)
 	if err != nil {
-		m.setError(fmt.Sprintf("Cannot list the %s files: %v", fileWhat[k], err))
+		m.setError(fmt.Sprintf("Cannot list the %s files: %v", fileLoads[k].what, err))
 		return
 	}
 	if len(files) == 0 {
-		m.setError(fmt.Sprintf("No %s files in your folder (%s) or the lab's shared folder.", fileWhat[k], m.folders.Own()))
+		m.setError(fmt.Sprintf("No %s files in your folder (%s) or the lab's shared folder.", fileLoads[k].what, m.folders.Own()))
 		return
 	}
 	last := map[FileKind]string{ScenarioFiles: m.lastPath, ProtocolFiles: m.lastProtocolPath, RecordingFiles: m.lastRecPath}[k]
@@ -79,19 +71,10 @@ func sizeText(n int64) string {
 // filesKey moves in the file list, opens the chosen file on Enter, closes
 // on Esc.
 func (m *Model) filesKey(msg tea.KeyMsg) tea.Cmd {
-	k := m.keys
-	switch {
-	case msg.String() == "ctrl+c":
-		return tea.Quit
-	case m.picker.navigate(msg, k):
-	case key.Matches(msg, k.Cancel, k.Quit):
-		m.mode = modeMain
-		m.setStatus("Cancelled: no file opened.")
-	case key.Matches(msg, k.Confirm):
-		m.mode = modeMain
-		return m.openFile(m.files[m.picker.sel])
+	if cmd, chosen := m.listKey(msg, m.keys.Cancel, "Cancelled: no file opened."); !chosen {
+		return cmd
 	}
-	return nil
+	return m.openFile(m.files[m.picker.sel])
 }
 
 // fileLoads is how each kind of file is read, as from a path.

@@ -40,27 +40,30 @@ var (
 // synchronously, feeding their messages back, as the program would. It
 // reports whether a command asked to quit.
 func press(m *Model, msgs ...tea.Msg) (quit bool) {
-	var run func(cmd tea.Cmd)
-	run = func(cmd tea.Cmd) {
-		if cmd == nil {
-			return
-		}
-		switch out := cmd().(type) {
-		case nil:
-		case tea.QuitMsg:
-			quit = true
-		case tea.BatchMsg:
-			for _, c := range out {
-				run(c)
-			}
-		default:
-			_, next := m.Update(out)
-			run(next)
-		}
-	}
 	for _, msg := range msgs {
 		_, cmd := m.Update(msg)
-		run(cmd)
+		quit = runCmd(m, cmd) || quit
+	}
+	return quit
+}
+
+// runCmd runs cmd synchronously, feeding its messages back to m, and
+// reports whether it (or a command it led to) asked to quit.
+func runCmd(m *Model, cmd tea.Cmd) (quit bool) {
+	if cmd == nil {
+		return false
+	}
+	switch out := cmd().(type) {
+	case nil:
+	case tea.QuitMsg:
+		return true
+	case tea.BatchMsg:
+		for _, c := range out {
+			quit = runCmd(m, c) || quit
+		}
+	default:
+		_, next := m.Update(out)
+		return runCmd(m, next)
 	}
 	return quit
 }
@@ -185,7 +188,7 @@ func nudgeBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, set
 func frameBytes(t *testing.T, p termenv.Profile, w, h, n int, preset string, step func(i int) tea.Msg, setup ...tea.Msg) []int {
 	m := probe{newTestModel(t, preset, p), make(chan struct{}, 1)}
 	var buf lockedBuffer
-	prog := tea.NewProgram(m, tea.WithAltScreen(), tea.WithOutput(&buf), tea.WithInput(nil), tea.WithoutSignals())
+	prog := NewProgram(m, tea.WithOutput(&buf), tea.WithInput(nil), tea.WithoutSignals())
 	done := make(chan struct{})
 	go func() {
 		defer close(done)

@@ -3,7 +3,6 @@ package ui
 import (
 	"context"
 	"fmt"
-	"os"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -56,15 +55,9 @@ type loadedMsg struct {
 // loadTickMsg asks for load id's progress to be shown.
 type loadTickMsg struct{ id int }
 
-// SetOpener makes the explorer open the files it reads with open instead of
-// safefile.Open: a server can confine a session to a folder this way (with
-// os.Root). open must refuse what is not a regular file, as safefile.Open
-// does; the explorer checks the opened file again.
-func (m *Model) SetOpener(open func(path string) (*os.File, error)) { m.opener = open }
-
 // startLoad reads path as l describes, replacing any load in progress.
 func (m *Model) startLoad(l fileLoad, path string) tea.Cmd {
-	return m.startLoadWith(l, path, m.opener)
+	return m.startLoadWith(l, path, nil)
 }
 
 // startLoadWith is startLoad with the file opened by open (nil:

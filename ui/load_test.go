@@ -26,23 +26,6 @@ func typePath(m *Model, k, path string) tea.Cmd {
 	return cmd
 }
 
-// runCmd runs cmd as press does, feeding its messages back to m.
-func runCmd(m *Model, cmd tea.Cmd) {
-	if cmd == nil {
-		return
-	}
-	switch out := cmd().(type) {
-	case nil, tea.QuitMsg:
-	case tea.BatchMsg:
-		for _, c := range out {
-			runCmd(m, c)
-		}
-	default:
-		_, next := m.Update(out)
-		runCmd(m, next)
-	}
-}
-
 // Every file key refuses a named pipe, a device and a folder at once, with
 // the kind of file named, and changes nothing on screen.
 func TestFileKeysRefuseWhatIsNotAFile(t *testing.T) {

@@ -9,7 +9,6 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/internal/pool"
-	"pvcouple/internal/safefile"
 	"pvcouple/internal/safetext"
 	"pvcouple/model"
 	"pvcouple/presets"
@@ -83,7 +82,6 @@ type Model struct {
 	closed      bool   // Close was called: no more background work
 
 	// Files read off the update loop (load.go).
-	opener   safefile.Opener      // opens the files read; nil: safefile.Open
 	loading  *loading             // the load in progress, nil when none
 	loads    int                  // loads started; the id of the latest
 	loadTick func(id int) tea.Cmd // the progress tick (defaultLoadTick)

@@ -93,29 +93,40 @@ func (p *picker) window() (from, to int) {
 	return from, from + p.rows
 }
 
-// pickerKey moves in the list, loads the chosen preset on Enter, closes on Esc.
-func (m *Model) pickerKey(msg tea.KeyMsg) tea.Cmd {
+// listKey handles the keys every list shares: ctrl+c quits, the arrows
+// move, Esc, q or closer close the list saying cancelled. It reports whether
+// Enter chose the selected row, the list then closed.
+func (m *Model) listKey(msg tea.KeyMsg, closer key.Binding, cancelled string) (cmd tea.Cmd, chosen bool) {
 	k := m.keys
 	switch {
 	case msg.String() == "ctrl+c":
-		return tea.Quit
+		return tea.Quit, false
 	case m.picker.navigate(msg, k):
-	case key.Matches(msg, k.Cancel, k.Preset, k.Quit):
+	case key.Matches(msg, k.Cancel, closer, k.Quit):
 		m.mode = modeMain
-		m.setStatus("No preset picked.")
+		m.setStatus(cancelled)
 	case key.Matches(msg, k.Confirm):
 		m.mode = modeMain
-		name := m.picker.names[m.picker.sel]
-		sc, err := presets.Get(name)
-		if err == nil {
-			err = m.load(sc, "preset "+name)
-		}
-		if err != nil {
-			m.setError(err.Error())
-			return nil
-		}
-		m.setStatus(fmt.Sprintf("Loaded preset %s (%s); it is the baseline too. u undoes.", name, sc.Description))
+		return nil, true
 	}
+	return nil, false
+}
+
+// pickerKey moves in the list, loads the chosen preset on Enter, closes on Esc.
+func (m *Model) pickerKey(msg tea.KeyMsg) tea.Cmd {
+	if cmd, chosen := m.listKey(msg, m.keys.Preset, "No preset picked."); !chosen {
+		return cmd
+	}
+	name := m.picker.names[m.picker.sel]
+	sc, err := presets.Get(name)
+	if err == nil {
+		err = m.load(sc, "preset "+name)
+	}
+	if err != nil {
+		m.setError(err.Error())
+		return nil
+	}
+	m.setStatus(fmt.Sprintf("Loaded preset %s (%s); it is the baseline too. u undoes.", name, sc.Description))
 	return nil
 }
 

@@ -3,7 +3,6 @@ package ui
 import (
 	"fmt"
 
-	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
 	"pvcouple/presets"
@@ -42,28 +41,19 @@ func (m *Model) openProtocols() {
 // protocolsKey moves in the list, plays the chosen protocol on Enter (or
 // asks for the file), closes on Esc.
 func (m *Model) protocolsKey(msg tea.KeyMsg) tea.Cmd {
-	k := m.keys
-	switch {
-	case msg.String() == "ctrl+c":
-		return tea.Quit
-	case m.picker.navigate(msg, k):
-	case key.Matches(msg, k.Cancel, k.Protocol, k.Quit):
-		m.mode = modeMain
-		m.setStatus("No protocol picked.")
-	case key.Matches(msg, k.Confirm):
-		m.mode = modeMain
-		name := m.picker.names[m.picker.sel]
-		if name == protocolFileItem {
-			return m.openPrompt(promptProtocol)
-		}
-		pr, err := presets.GetProtocol(name)
-		if err != nil {
-			m.setError(err.Error())
-			return nil
-		}
-		return m.startProtocol(pr)
+	if cmd, chosen := m.listKey(msg, m.keys.Protocol, "No protocol picked."); !chosen {
+		return cmd
 	}
-	return nil
+	name := m.picker.names[m.picker.sel]
+	if name == protocolFileItem {
+		return m.openPrompt(promptProtocol)
+	}
+	pr, err := presets.GetProtocol(name)
+	if err != nil {
+		m.setError(err.Error())
+		return nil
+	}
+	return m.startProtocol(pr)
 }
 
 // renderProtocols draws the protocol list as a framed box, the file entry

@@ -146,29 +146,26 @@ func (m *Model) solved(msg solvedMsg) tea.Cmd {
 
 // compute runs fn, model work the UI goroutine waits for (a scenario being
 // opened, a protocol's beat), in a slot of the pool like every solve.
-func (m *Model) compute(fn func()) {
-	if err := m.tenant.Do(context.Background(), pool.Interactive, fn); err != nil {
-		fn() // the session is ending: nothing waits for a slot any more
-	}
-}
+func (m *Model) compute(fn func()) { _ = inSlot(context.Background(), m.tenant, fn) }
 
 // tenantKey carries an explorer's tenant in the context of a load.
 type tenantKey struct{}
 
 // inPool runs fn, model work of a load, in a slot of the tenant that ctx
-// carries (see startLoadWith); it returns ctx's error if the load was
-// cancelled while it waited.
+// carries (see startLoadWith).
 func inPool(ctx context.Context, fn func()) error {
-	t, ok := ctx.Value(tenantKey{}).(*pool.Tenant)
-	if !ok {
-		fn()
-		return nil
-	}
+	return inSlot(ctx, ctx.Value(tenantKey{}).(*pool.Tenant), fn)
+}
+
+// inSlot runs fn in a slot of tenant t, or at once when t is closed (the
+// explorer is ending: nothing waits for a slot any more); it returns ctx's
+// error, without running fn, if ctx ended while fn waited.
+func inSlot(ctx context.Context, t *pool.Tenant, fn func()) error {
 	if err := t.Do(ctx, pool.Interactive, fn); err != nil {
 		if ctx.Err() != nil {
 			return ctx.Err()
 		}
-		fn() // the tenant is closed: the explorer is ending
+		fn()
 	}
 	return nil
 }
